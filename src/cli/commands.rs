@@ -1,0 +1,135 @@
+//! One `run` per subcommand: resolve the plan (profiles loaded and checked),
+//! compute, then render to stdout.
+
+use std::io::{IsTerminal, Write};
+
+use super::{BuildPressArgs, CheckArgs, Cli, Command, DeltaArgs, InspectArgs, ProfilesArgs};
+use crate::color::css::parse_color;
+use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
+use crate::icc::transform::{resolve_lab, PressMapping};
+use crate::icc::{builtin, inspect, IccProfile};
+use crate::report::{self, DeltaColor, DeltaReport};
+use crate::swatch::check::{check, CheckOptions};
+use crate::swatch::Palette;
+
+/// How a successful run ended.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Outcome {
+    Done,
+    /// `--strict` and something was beyond tolerance.
+    BeyondTolerance,
+}
+
+pub type Error = Box<dyn std::error::Error + Send + Sync>;
+
+fn use_color() -> bool {
+    std::io::stdout().is_terminal() && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
+}
+
+fn round4(v: f64) -> f64 {
+    (v * 1e4).round() / 1e4
+}
+
+pub fn run(cli: Cli, out: &mut dyn Write) -> Result<Outcome, Error> {
+    match cli.command {
+        Command::Check(a) => run_check(a, out),
+        Command::Delta(a) => run_delta(a, out),
+        Command::Inspect(a) => run_inspect(a, out),
+        Command::Profiles(a) => run_profiles(a, out),
+        Command::BuildPress(a) => run_build_press(a),
+    }
+}
+
+fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
+    if !(a.tolerance.is_finite() && a.tolerance >= 0.0) {
+        return Err(format!("--tolerance must be a ΔE00 of 0 or more, not {}", a.tolerance).into());
+    }
+    // The plan: everything is read and checked before any output.
+    let palette = Palette::read(&a.palette)?;
+    let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
+    let press = IccProfile::load(&a.profiles.press)?.require_press()?;
+    let opts = CheckOptions {
+        mapping: PressMapping {
+            intent: a.intent.into(),
+            bpc: !a.no_bpc,
+            paper_white: a.paper_white,
+        },
+        tolerance: a.tolerance,
+    };
+    let r = check(&palette, &screen, &press, opts)?;
+    if a.json {
+        report::write_json(out, &r)?;
+    } else {
+        report::render_check(out, &r, use_color())?;
+    }
+    Ok(if a.strict && r.summary.beyond_tolerance > 0 {
+        Outcome::BeyondTolerance
+    } else {
+        Outcome::Done
+    })
+}
+
+fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
+    let ca = parse_color(&a.a)?;
+    let cb = parse_color(&a.b)?;
+    let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
+    let needs_press = [ca, cb]
+        .iter()
+        .any(|c| matches!(c, crate::color::css::ColorInput::DeviceCmyk(_)));
+    let press = if needs_press {
+        Some(IccProfile::load(&a.profiles.press)?.require_press()?)
+    } else {
+        None
+    };
+    let lab = resolve_lab(&[ca, cb], &screen, press.as_ref())?;
+    let (la, lb) = (lab[0], lab[1]);
+    let r = DeltaReport {
+        a: DeltaColor {
+            input: a.a.clone(),
+            lab: la.to_array().map(round4),
+        },
+        b: DeltaColor {
+            input: a.b.clone(),
+            lab: lb.to_array().map(round4),
+        },
+        de76: round4(delta_e76(la, lb)),
+        de94: round4(delta_e94(la, lb)),
+        de00: round4(delta_e00(la, lb)),
+        cmc: round4(delta_e_cmc(la, lb, 2.0, 1.0)),
+    };
+    if a.json {
+        report::write_json(out, &r)?;
+    } else {
+        report::render_delta(out, &r)?;
+    }
+    Ok(Outcome::Done)
+}
+
+fn run_inspect(a: InspectArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
+    let p = IccProfile::load(&a.profile)?;
+    let r = inspect::inspect(&p);
+    if a.json {
+        report::write_json(out, &r)?;
+    } else {
+        report::render_inspect(out, &r)?;
+    }
+    Ok(Outcome::Done)
+}
+
+fn run_profiles(a: ProfilesArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
+    if a.json {
+        report::write_json(out, &builtin::BUILTINS)?;
+    } else {
+        report::render_profiles(out, builtin::BUILTINS)?;
+    }
+    Ok(Outcome::Done)
+}
+
+fn run_build_press(a: BuildPressArgs) -> Result<Outcome, Error> {
+    let cond = crate::press::builtin_press(&a.name)
+        .ok_or_else(|| format!("no built-in press condition '{}'", a.name))?;
+    let bytes = crate::press::build_icc(&cond)?;
+    crate::io::write_atomic(&a.out, |w| w.write_all(&bytes))
+        .map_err(|e| format!("cannot write '{}': {e}", a.out.display()))?;
+    Ok(Outcome::Done)
+}

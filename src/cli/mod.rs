@@ -1,0 +1,151 @@
+//! Command-line interface: clap definitions, a plan resolved from the
+//! arguments before any work starts, and one small `run` per subcommand.
+
+mod commands;
+
+use std::path::PathBuf;
+
+use clap::{Args, Parser, Subcommand, ValueEnum};
+
+pub use commands::run;
+
+#[derive(Parser, Debug)]
+#[command(
+    name = "inkfit",
+    version,
+    about = "Will these screen colours survive the press? ICC-based checks for print.",
+    after_help = "Exit codes: 0 the job ran; 1 a result beyond tolerance under --strict; 2 an error.\n\
+                  A profile argument is a built-in name (see `inkfit profiles`) or a path to an ICC file."
+)]
+pub struct Cli {
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+#[derive(Subcommand, Debug)]
+pub enum Command {
+    /// Check each colour of a palette against the press: CMYK, ink, printed CIELAB, CIEDE2000, gamut.
+    Check(CheckArgs),
+    /// Colour difference of two colours: ΔE*ab, ΔE*94, CIEDE2000 and CMC(2:1).
+    Delta(DeltaArgs),
+    /// Describe an ICC profile: identity, white, intents with tables, primaries, maximum ink.
+    Inspect(InspectArgs),
+    /// List the built-in profiles.
+    Profiles(ProfilesArgs),
+    /// Maintainers: rebuild a built-in press profile from its printing model.
+    #[command(hide = true)]
+    BuildPress(BuildPressArgs),
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum IntentArg {
+    Perceptual,
+    Relative,
+    Saturation,
+    Absolute,
+}
+
+impl From<IntentArg> for crate::icc::RenderingIntent {
+    fn from(i: IntentArg) -> Self {
+        use crate::icc::RenderingIntent as R;
+        match i {
+            IntentArg::Perceptual => R::Perceptual,
+            IntentArg::Relative => R::Relative,
+            IntentArg::Saturation => R::Saturation,
+            IntentArg::Absolute => R::Absolute,
+        }
+    }
+}
+
+#[derive(Args, Debug)]
+pub struct ProfileArgs {
+    /// Screen profile: built-in name or ICC file.
+    #[arg(long, value_name = "PROFILE", default_value = "srgb")]
+    pub screen: String,
+    /// Press profile: built-in name or ICC file (a CMYK output profile).
+    #[arg(long, value_name = "PROFILE", default_value = "offset-coated")]
+    pub press: String,
+}
+
+#[derive(Args, Debug)]
+pub struct CheckArgs {
+    /// Palette file: .csv (with a header naming a colour column), .json (array of {"name","color"}) or plain text.
+    pub palette: PathBuf,
+    #[command(flatten)]
+    pub profiles: ProfileArgs,
+    /// Rendering intent from screen to press.
+    #[arg(long, value_enum, default_value = "relative")]
+    pub intent: IntentArg,
+    /// Turn black point compensation off (it is on by default).
+    #[arg(long)]
+    pub no_bpc: bool,
+    /// Largest acceptable CIEDE2000 between screen and print. The default 3.0 is a rule of thumb, not a standard.
+    #[arg(long, value_name = "ΔE00", default_value_t = crate::swatch::check::DEFAULT_TOLERANCE)]
+    pub tolerance: f64,
+    /// Show the print on the paper's own white (absolute colorimetric), so the paper's tint counts.
+    #[arg(long)]
+    pub paper_white: bool,
+    /// Write JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+    /// Exit with code 1 when any colour is beyond the tolerance.
+    #[arg(long)]
+    pub strict: bool,
+}
+
+#[derive(Args, Debug)]
+pub struct DeltaArgs {
+    /// First colour (the reference for ΔE*94 and CMC), in CSS colour syntax.
+    pub a: String,
+    /// Second colour.
+    pub b: String,
+    #[command(flatten)]
+    pub profiles: ProfileArgs,
+    /// Write JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+}
+
+#[derive(Args, Debug)]
+pub struct InspectArgs {
+    /// Built-in name or ICC file.
+    pub profile: String,
+    /// Write JSON instead of text.
+    #[arg(long)]
+    pub json: bool,
+}
+
+#[derive(Args, Debug)]
+pub struct ProfilesArgs {
+    /// Write JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+}
+
+#[derive(Args, Debug)]
+pub struct BuildPressArgs {
+    /// Built-in press condition to rebuild.
+    #[arg(default_value = "offset-coated")]
+    pub name: String,
+    /// Where to write the ICC file.
+    #[arg(long, value_name = "FILE")]
+    pub out: PathBuf,
+}
+
+pub use commands::Outcome;
+
+/// The error and its causes on one line; causes whose text the message
+/// already includes are not repeated.
+pub fn error_chain(e: &(dyn std::error::Error + 'static)) -> String {
+    let mut text = e.to_string();
+    let mut cur = e.source();
+    while let Some(c) = cur {
+        let t = c.to_string();
+        if !text.contains(&t) {
+            text.push_str(": ");
+            text.push_str(&t);
+        }
+        cur = c.source();
+    }
+    text.replace('\n', " ")
+}

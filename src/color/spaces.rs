@@ -1,0 +1,1 @@
+//! The CSS-defined RGB spaces and Oklab.

@@ -1,0 +1,280 @@
+//! What a practitioner asks of a profile: its identity, white, the intents it
+//! carries tables for, primaries of matrix RGB profiles, and the largest total
+//! ink a CMYK output profile's Lab → CMYK table produces (measured by sampling).
+
+use lcms2::{InfoType, Locale, PixelFormat, Transform};
+use serde::Serialize;
+
+use super::header::{self, read_matrix3, read_xyz};
+use super::transform::lab_d50_profile;
+use super::{Direction, IccProfile, RenderingIntent, TableUse};
+use crate::color::{LabD50, Xy, Xyz, D50};
+
+#[derive(Clone, Debug, Serialize)]
+pub struct ProfileReport {
+    pub name: String,
+    pub builtin: bool,
+    pub version: String,
+    pub class: String,
+    pub class_phrase: String,
+    pub color_space: String,
+    pub pcs: String,
+    pub description: Option<String>,
+    pub copyright: Option<String>,
+    pub created: String,
+    pub size_bytes: usize,
+    /// mediaWhitePoint tag, XYZ (Y = 1) as stored (D50-adapted in v4).
+    pub white_point_xyz: Option<[f64; 3]>,
+    /// The media white as CIELAB D50.
+    pub white_point_lab: Option<[f64; 3]>,
+    pub model: &'static str,
+    pub intents: Vec<IntentTables>,
+    /// Matrix RGB profiles: primaries and white as chromaticities before
+    /// adaptation to D50 (undone with the chad tag, or Bradford from D50 to
+    /// the media white for v2 profiles without one).
+    pub primaries: Option<Primaries>,
+    /// CMYK output profiles: largest C+M+Y+K (percent) that the Lab → CMYK
+    /// table produces, found by sampling; null otherwise.
+    pub max_ink: Option<f64>,
+    pub max_ink_method: Option<String>,
+    pub tags: Vec<String>,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct IntentTables {
+    pub intent: RenderingIntent,
+    pub to_pcs: TableReport,
+    pub from_pcs: TableReport,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct TableReport {
+    /// "own", "same-as", "falls-back", "matrix" or "missing".
+    pub status: &'static str,
+    pub tag: Option<String>,
+    /// For "same-as" and "falls-back": the tag that actually serves.
+    pub served_by: Option<String>,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct Primaries {
+    pub red: [f64; 2],
+    pub green: [f64; 2],
+    pub blue: [f64; 2],
+    pub white: [f64; 2],
+    pub adapted_from: &'static str,
+}
+
+fn table_report(u: TableUse) -> TableReport {
+    match u {
+        TableUse::Own(t) => TableReport {
+            status: "own",
+            tag: Some(t.to_string()),
+            served_by: None,
+        },
+        TableUse::SameAs { tag, other } => TableReport {
+            status: "same-as",
+            tag: Some(tag.to_string()),
+            served_by: Some(other.to_string()),
+        },
+        TableUse::FallsBackTo(t) => TableReport {
+            status: "falls-back",
+            tag: None,
+            served_by: Some(t.to_string()),
+        },
+        TableUse::Matrix => TableReport {
+            status: "matrix",
+            tag: None,
+            served_by: None,
+        },
+        TableUse::Missing => TableReport {
+            status: "missing",
+            tag: None,
+            served_by: None,
+        },
+    }
+}
+
+/// Inspects a loaded profile.
+pub fn inspect(p: &IccProfile) -> ProfileReport {
+    let h = &p.header;
+    let text = |t| p.lcms.info(t, Locale::none()).filter(|s| !s.trim().is_empty());
+    let white = h.tag(b"wtpt").and_then(|t| read_xyz(&p.bytes, t));
+    let white_lab = white.map(|w| LabD50::from_xyz(Xyz::new(w[0], w[1], w[2])).to_array());
+    let intents = RenderingIntent::ALL
+        .iter()
+        .map(|&intent| IntentTables {
+            intent,
+            to_pcs: table_report(p.table_use(intent, Direction::ToPcs)),
+            from_pcs: table_report(p.table_use(intent, Direction::FromPcs)),
+        })
+        .collect();
+    let is_cmyk_output = h.color_space == header::SPACE_CMYK && h.class == header::CLASS_OUTPUT;
+    let max_ink = if is_cmyk_output { measure_max_ink(p) } else { None };
+    let c = h.created;
+    ProfileReport {
+        name: p.name.clone(),
+        builtin: p.is_builtin(),
+        version: h.version_string(),
+        class: h.class.to_string(),
+        class_phrase: p.kind_phrase(),
+        color_space: h.color_space.to_string(),
+        pcs: h.pcs.to_string(),
+        description: text(InfoType::Description),
+        copyright: text(InfoType::Copyright),
+        created: format!("{:04}-{:02}-{:02} {:02}:{:02}:{:02}", c[0], c[1], c[2], c[3], c[4], c[5]),
+        size_bytes: h.size,
+        white_point_xyz: white,
+        white_point_lab: white_lab,
+        model: if p.is_matrix_shaper() && h.tag(b"A2B0").is_none() {
+            "matrix/TRC"
+        } else {
+            "lookup tables"
+        },
+        intents,
+        primaries: primaries(p),
+        max_ink: max_ink.map(|(m, _)| m),
+        max_ink_method: max_ink.map(|(_, n)| {
+            format!("measured: largest C+M+Y+K over {n} CIELAB samples sent through the relative colorimetric Lab → CMYK table")
+        }),
+        tags: h.tags.iter().map(|t| t.sig.to_string()).collect(),
+    }
+}
+
+fn invert3(m: [[f64; 3]; 3]) -> Option<[[f64; 3]; 3]> {
+    let det = m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0])
+        + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
+    if det.abs() < 1e-12 {
+        return None;
+    }
+    let mut inv = [[0.0; 3]; 3];
+    for (i, row) in inv.iter_mut().enumerate() {
+        for (j, v) in row.iter_mut().enumerate() {
+            // Cofactor of m[j][i] over the determinant.
+            let (r0, r1) = ((j + 1) % 3, (j + 2) % 3);
+            let (c0, c1) = ((i + 1) % 3, (i + 2) % 3);
+            *v = (m[r0][c0] * m[r1][c1] - m[r0][c1] * m[r1][c0]) / det;
+        }
+    }
+    Some(inv)
+}
+
+fn mul(m: [[f64; 3]; 3], v: [f64; 3]) -> [f64; 3] {
+    [
+        m[0][0] * v[0] + m[0][1] * v[1] + m[0][2] * v[2],
+        m[1][0] * v[0] + m[1][1] * v[1] + m[1][2] * v[2],
+        m[2][0] * v[0] + m[2][1] * v[1] + m[2][2] * v[2],
+    ]
+}
+
+/// Bradford chromatic adaptation matrix from white `src` to white `dst`
+/// (Lam 1985; the form used in ICC.1:2010 Annex E).
+pub fn bradford(src: [f64; 3], dst: [f64; 3]) -> [[f64; 3]; 3] {
+    const B: [[f64; 3]; 3] = [[0.8951, 0.2664, -0.1614], [-0.7502, 1.7135, 0.0367], [0.0389, -0.0685, 1.0296]];
+    let bi = invert3(B).unwrap_or(B);
+    let s = mul(B, src);
+    let d = mul(B, dst);
+    let scale = [[d[0] / s[0], 0.0, 0.0], [0.0, d[1] / s[1], 0.0], [0.0, 0.0, d[2] / s[2]]];
+    let mm = |a: [[f64; 3]; 3], b: [[f64; 3]; 3]| {
+        let mut r = [[0.0; 3]; 3];
+        for i in 0..3 {
+            for j in 0..3 {
+                r[i][j] = (0..3).map(|k| a[i][k] * b[k][j]).sum();
+            }
+        }
+        r
+    };
+    mm(bi, mm(scale, B))
+}
+
+fn xy_of(v: [f64; 3]) -> [f64; 2] {
+    let c = Xyz::new(v[0], v[1], v[2]).chromaticity().unwrap_or(Xy { x: 0.0, y: 0.0 });
+    [round6(c.x), round6(c.y)]
+}
+
+fn round6(v: f64) -> f64 {
+    (v * 1e6).round() / 1e6
+}
+
+fn primaries(p: &IccProfile) -> Option<Primaries> {
+    let h = &p.header;
+    if h.color_space != header::SPACE_RGB || !p.is_matrix_shaper() {
+        return None;
+    }
+    let col = |s: &[u8; 4]| h.tag(s).and_then(|t| read_xyz(&p.bytes, t));
+    let (r, g, b) = (col(b"rXYZ")?, col(b"gXYZ")?, col(b"bXYZ")?);
+    let wtpt = col(b"wtpt").unwrap_or(D50.to_array());
+    // chad maps the actual illuminant to D50; its inverse undoes the adaptation.
+    let (to_actual, from) = match h.tag(b"chad").and_then(|t| read_matrix3(&p.bytes, t)) {
+        Some(chad) => (invert3(chad)?, "chad tag"),
+        None => (bradford(D50.to_array(), wtpt), "Bradford to the media white (no chad tag)"),
+    };
+    let white = match h.tag(b"chad") {
+        Some(_) => mul(to_actual, wtpt),
+        None => wtpt,
+    };
+    Some(Primaries {
+        red: xy_of(mul(to_actual, r)),
+        green: xy_of(mul(to_actual, g)),
+        blue: xy_of(mul(to_actual, b)),
+        white: xy_of(white),
+        adapted_from: from,
+    })
+}
+
+/// Samples CIELAB through the profile's relative colorimetric Lab → CMYK
+/// table and returns the largest total ink and the sample count.
+fn measure_max_ink(p: &IccProfile) -> Option<(f64, usize)> {
+    let lab = lab_d50_profile();
+    let t: Transform<[f64; 3], [f64; 4]> = Transform::new(
+        &lab,
+        PixelFormat::Lab_DBL,
+        &p.lcms,
+        PixelFormat::CMYK_DBL,
+        RenderingIntent::Relative.to_lcms(),
+    )
+    .ok()?;
+    let samples = max_ink_samples();
+    let mut out = vec![[0.0; 4]; samples.len()];
+    t.transform_pixels(&samples, &mut out);
+    let max = out.iter().map(|c| c.iter().sum::<f64>()).fold(0.0, f64::max);
+    Some(((max * 10.0).round() / 10.0, samples.len()))
+}
+
+/// A coarse grid over the whole CIELAB cube plus a dense one over the
+/// shadows, where the total ink peaks.
+fn max_ink_samples() -> Vec<[f64; 3]> {
+    let mut v = Vec::new();
+    for i in 0..=16 {
+        for j in 0..=16 {
+            for k in 0..=16 {
+                v.push([100.0 * f64::from(i) / 16.0, -128.0 + 16.0 * f64::from(j), -128.0 + 16.0 * f64::from(k)]);
+            }
+        }
+    }
+    for l in 0..=40 {
+        for j in 0..=16 {
+            for k in 0..=16 {
+                v.push([f64::from(l), -64.0 + 8.0 * f64::from(j), -64.0 + 8.0 * f64::from(k)]);
+            }
+        }
+    }
+    v
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn bradford_d65_to_d50_matches_published_matrix() {
+        // Bradford D65 → D50 as tabulated by Lindbloom (from memory), the
+        // matrix CSS Color 4 also uses: first row 1.0478, 0.0229, -0.0501.
+        let d65 = [0.95047, 1.0, 1.08883];
+        let m = bradford(d65, [0.96422, 1.0, 0.82521]);
+        assert!((m[0][0] - 1.0478112).abs() < 1e-4, "{m:?}");
+        assert!((m[0][1] - 0.0228866).abs() < 1e-4, "{m:?}");
+        assert!((m[0][2] + 0.0501270).abs() < 1e-4, "{m:?}");
+        assert!((m[2][2] - 0.7521316).abs() < 1e-4, "{m:?}");
+    }
+}

@@ -1,0 +1,354 @@
+//! ICC profiles: where they come from (built-in or file), checking that a
+//! profile can play the role asked of it (screen or press), which intents have
+//! their own tables, and the lcms2 transforms built from them.
+
+pub mod builtin;
+pub mod header;
+pub mod inspect;
+pub mod transform;
+
+use std::fmt;
+use std::path::{Path, PathBuf};
+
+use header::{Header, HeaderError, Signature, TagEntry};
+
+/// Errors from loading or using a profile. Each names the profile.
+#[derive(Debug, thiserror::Error)]
+pub enum IccError {
+    #[error("profile '{name}': {source}")]
+    Malformed {
+        name: String,
+        #[source]
+        source: HeaderError,
+    },
+    #[error("profile '{name}': cannot read the file: {source}")]
+    Read {
+        name: String,
+        #[source]
+        source: std::io::Error,
+    },
+    #[error("profile '{name}': lcms2 cannot open it (a damaged or unsupported tag)")]
+    Open { name: String },
+    #[error("profile '{name}': no such file and no built-in of that name (built-ins: {builtins})")]
+    Unknown { name: String, builtins: String },
+    #[error("profile '{name}' is {found}; {role} needs {expected}")]
+    WrongKind {
+        name: String,
+        found: String,
+        role: &'static str,
+        expected: &'static str,
+    },
+    #[error("profile '{name}': cannot build the {what} transform for {intent}")]
+    Transform {
+        name: String,
+        what: &'static str,
+        intent: RenderingIntent,
+    },
+    #[error("built-in profile '{name}' could not be made: {detail}")]
+    Builtin { name: String, detail: String },
+}
+
+/// The four ICC rendering intents (ICC.1:2010, 7.2.15).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum RenderingIntent {
+    Perceptual,
+    Relative,
+    Saturation,
+    Absolute,
+}
+
+impl RenderingIntent {
+    pub const ALL: [RenderingIntent; 4] = [
+        RenderingIntent::Perceptual,
+        RenderingIntent::Relative,
+        RenderingIntent::Saturation,
+        RenderingIntent::Absolute,
+    ];
+
+    pub fn to_lcms(self) -> lcms2::Intent {
+        match self {
+            RenderingIntent::Perceptual => lcms2::Intent::Perceptual,
+            RenderingIntent::Relative => lcms2::Intent::RelativeColorimetric,
+            RenderingIntent::Saturation => lcms2::Intent::Saturation,
+            RenderingIntent::Absolute => lcms2::Intent::AbsoluteColorimetric,
+        }
+    }
+
+    /// Short name as used on the command line and in JSON.
+    pub fn key(self) -> &'static str {
+        match self {
+            RenderingIntent::Perceptual => "perceptual",
+            RenderingIntent::Relative => "relative",
+            RenderingIntent::Saturation => "saturation",
+            RenderingIntent::Absolute => "absolute",
+        }
+    }
+
+    /// The digit of the A2Bn/B2An tag that serves this intent (ICC.1:2010,
+    /// table 25: absolute colorimetric uses the colorimetric table).
+    pub fn table_index(self) -> u8 {
+        match self {
+            RenderingIntent::Perceptual => 0,
+            RenderingIntent::Relative | RenderingIntent::Absolute => 1,
+            RenderingIntent::Saturation => 2,
+        }
+    }
+}
+
+impl fmt::Display for RenderingIntent {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(match self {
+            RenderingIntent::Perceptual => "perceptual",
+            RenderingIntent::Relative => "relative colorimetric",
+            RenderingIntent::Saturation => "saturation",
+            RenderingIntent::Absolute => "absolute colorimetric",
+        })
+    }
+}
+
+/// Where a profile came from.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum Origin {
+    Builtin,
+    File(PathBuf),
+}
+
+/// A profile that passed the strict header check and that lcms2 opened.
+pub struct IccProfile {
+    /// The name a user knows it by: the built-in name or the path as given.
+    pub name: String,
+    pub origin: Origin,
+    pub bytes: Vec<u8>,
+    pub header: Header,
+    pub lcms: lcms2::Profile,
+}
+
+impl fmt::Debug for IccProfile {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.debug_struct("IccProfile")
+            .field("name", &self.name)
+            .field("origin", &self.origin)
+            .field("class", &self.header.class)
+            .field("color_space", &self.header.color_space)
+            .finish()
+    }
+}
+
+/// Which way a table converts.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Direction {
+    /// Device → PCS (A2Bn).
+    ToPcs,
+    /// PCS → device (B2An).
+    FromPcs,
+}
+
+/// What serves one intent in one direction.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum TableUse {
+    /// A table of the intent's own, stored once.
+    Own(Signature),
+    /// The intent's tag exists but holds the same data as another intent's.
+    SameAs { tag: Signature, other: Signature },
+    /// No tag for this intent: lcms2 falls back to the one named.
+    FallsBackTo(Signature),
+    /// Matrix/TRC model: every intent computes the same colorimetric result.
+    Matrix,
+    /// Nothing serves this direction.
+    Missing,
+}
+
+impl IccProfile {
+    /// Resolves a profile argument: an exact built-in name, else a file path.
+    pub fn load(spec: &str) -> Result<Self, IccError> {
+        if let Some(bytes) = builtin::bytes(spec) {
+            return Self::from_bytes(spec, Origin::Builtin, bytes?);
+        }
+        let path = Path::new(spec);
+        if !path.exists() {
+            return Err(IccError::Unknown {
+                name: spec.to_string(),
+                builtins: builtin::names().join(", "),
+            });
+        }
+        let bytes = std::fs::read(path).map_err(|source| IccError::Read {
+            name: spec.to_string(),
+            source,
+        })?;
+        Self::from_bytes(spec, Origin::File(path.to_path_buf()), bytes)
+    }
+
+    /// Checks and opens a profile held in memory.
+    pub fn from_bytes(name: &str, origin: Origin, bytes: Vec<u8>) -> Result<Self, IccError> {
+        let header = Header::parse(&bytes).map_err(|source| IccError::Malformed {
+            name: name.to_string(),
+            source,
+        })?;
+        let lcms = lcms2::Profile::new_icc(&bytes).map_err(|_| IccError::Open {
+            name: name.to_string(),
+        })?;
+        Ok(Self {
+            name: name.to_string(),
+            origin,
+            bytes,
+            header,
+            lcms,
+        })
+    }
+
+    /// How this profile reads to a person: "a display RGB profile" etc.
+    pub fn kind_phrase(&self) -> String {
+        describe_kind(self.header.class, self.header.color_space)
+    }
+
+    pub fn is_builtin(&self) -> bool {
+        self.origin == Origin::Builtin
+    }
+
+    /// Accepts the profile as a screen: RGB device data, and a class that
+    /// converts device values to the connection space.
+    pub fn require_screen(self) -> Result<Self, IccError> {
+        use header::*;
+        let h = &self.header;
+        let class_ok = [CLASS_DISPLAY, CLASS_INPUT, CLASS_COLORSPACE, CLASS_OUTPUT].contains(&h.class);
+        if h.color_space == SPACE_RGB && class_ok && self.has_to_pcs() {
+            Ok(self)
+        } else {
+            Err(IccError::WrongKind {
+                found: self.kind_phrase(),
+                name: self.name,
+                role: "--screen",
+                expected: "an RGB display, input or colour-space profile",
+            })
+        }
+    }
+
+    /// Accepts the profile as a press: an output profile for CMYK with tables
+    /// both ways.
+    pub fn require_press(self) -> Result<Self, IccError> {
+        use header::*;
+        let h = &self.header;
+        if h.color_space == SPACE_CMYK && h.class == CLASS_OUTPUT && self.has_to_pcs() && self.has_from_pcs() {
+            Ok(self)
+        } else {
+            Err(IccError::WrongKind {
+                found: self.kind_phrase(),
+                name: self.name,
+                role: "--press",
+                expected: "a CMYK output profile with tables to and from the connection space",
+            })
+        }
+    }
+
+    fn has(&self, sig: &[u8; 4]) -> bool {
+        self.header.tag(sig).is_some()
+    }
+
+    /// True for a matrix/TRC RGB or grey model (ICC.1:2010, F.3).
+    pub fn is_matrix_shaper(&self) -> bool {
+        (self.has(b"rXYZ") && self.has(b"gXYZ") && self.has(b"bXYZ") && self.has(b"rTRC") && self.has(b"gTRC") && self.has(b"bTRC"))
+            || self.has(b"kTRC")
+    }
+
+    fn has_to_pcs(&self) -> bool {
+        self.has(b"A2B0") || self.has(b"A2B1") || self.has(b"A2B2") || self.is_matrix_shaper()
+    }
+
+    fn has_from_pcs(&self) -> bool {
+        self.has(b"B2A0") || self.has(b"B2A1") || self.has(b"B2A2") || self.is_matrix_shaper()
+    }
+
+    /// Which table serves `intent` in `dir`, following lcms2's fallback order
+    /// (the intent's own tag, else the perceptual tag, else the matrix model).
+    pub fn table_use(&self, intent: RenderingIntent, dir: Direction) -> TableUse {
+        let prefix: &[u8; 3] = match dir {
+            Direction::ToPcs => b"A2B",
+            Direction::FromPcs => b"B2A",
+        };
+        let sig_of = |i: u8| Signature([prefix[0], prefix[1], prefix[2], b'0' + i]);
+        let entry = |i: u8| self.header.tag(&sig_of(i).0);
+        let own = intent.table_index();
+        match entry(own) {
+            Some(e) => {
+                for other in (0..3u8).filter(|&o| o != own) {
+                    if let Some(o) = entry(other) {
+                        if same_data(&self.bytes, e, o) && other < own {
+                            return TableUse::SameAs { tag: e.sig, other: o.sig };
+                        }
+                    }
+                }
+                TableUse::Own(e.sig)
+            }
+            None => match entry(0) {
+                Some(e) => TableUse::FallsBackTo(e.sig),
+                None if self.is_matrix_shaper() => TableUse::Matrix,
+                None => TableUse::Missing,
+            },
+        }
+    }
+
+    /// A note for output when `intent` has no table of its own in `dir`.
+    pub fn intent_note(&self, intent: RenderingIntent, dir: Direction) -> Option<String> {
+        let n = &self.name;
+        match self.table_use(intent, dir) {
+            TableUse::Own(_) => None,
+            TableUse::SameAs { tag, other } => Some(format!(
+                "{n}: the {intent} table ({tag}) holds the same data as {other} ({}); this intent gives the same result",
+                intent_of_tag(other)
+            )),
+            TableUse::FallsBackTo(tag) => Some(format!(
+                "{n}: no {intent} table; lcms2 uses the perceptual table ({tag}) instead"
+            )),
+            TableUse::Matrix => (intent != RenderingIntent::Absolute && intent != RenderingIntent::Relative).then(|| {
+                format!("{n}: matrix/TRC profile: {intent} gives the same result as relative colorimetric")
+            }),
+            TableUse::Missing => Some(format!("{n}: no table serves {intent}")),
+        }
+    }
+}
+
+/// Two tag entries hold the same data: one shared offset, or equal bytes.
+fn same_data(bytes: &[u8], a: TagEntry, b: TagEntry) -> bool {
+    (a.offset == b.offset && a.size == b.size)
+        || (a.size == b.size && bytes[a.offset..a.offset + a.size] == bytes[b.offset..b.offset + b.size])
+}
+
+fn intent_of_tag(sig: Signature) -> &'static str {
+    match sig.0[3] {
+        b'0' => "perceptual",
+        b'1' => "colorimetric",
+        b'2' => "saturation",
+        _ => "?",
+    }
+}
+
+/// "a display RGB profile", "an output CMYK profile", "a Lab abstract profile"…
+pub fn describe_kind(class: Signature, space: Signature) -> String {
+    use header::*;
+    let class_word = match class {
+        c if c == CLASS_DISPLAY => "display",
+        c if c == CLASS_INPUT => "input",
+        c if c == CLASS_OUTPUT => "output",
+        c if c == CLASS_LINK => "device link",
+        c if c == CLASS_ABSTRACT => "abstract",
+        c if c == CLASS_COLORSPACE => "colour space",
+        c if c == CLASS_NAMED => "named colour",
+        _ => "unknown-class",
+    };
+    let space_word = match space {
+        s if s == SPACE_RGB => "RGB".to_string(),
+        s if s == SPACE_CMYK => "CMYK".to_string(),
+        s if s == SPACE_GRAY => "grey".to_string(),
+        s if s == SPACE_LAB => "Lab".to_string(),
+        s if s == SPACE_XYZ => "XYZ".to_string(),
+        s => format!("'{s}'"),
+    };
+    let phrase = format!("{space_word} {class_word} profile");
+    let article = if phrase.starts_with(['a', 'e', 'i', 'o', 'u', 'R', 'X']) {
+        "an"
+    } else {
+        "a"
+    };
+    format!("{article} {phrase}")
+}

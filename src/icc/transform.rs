@@ -1,0 +1,192 @@
+//! The lcms2 transforms inkfit runs: screen RGB and CIELAB to and from a press's
+//! CMYK, all in double precision (lcms2's float path: RGB 0..1, CMYK 0..100 %,
+//! CIELAB D50).
+
+use lcms2::{CIExyY, Flags, GlobalContext, PixelFormat, Profile, Transform};
+
+use super::{IccError, IccProfile, RenderingIntent};
+use crate::color::{LabD50, D50};
+
+/// A CIELAB v4 profile relative to D50: the PCS as a colour space.
+pub fn lab_d50_profile() -> Profile {
+    let s = D50.x + D50.y + D50.z;
+    let white = CIExyY {
+        x: D50.x / s,
+        y: D50.y / s,
+        Y: 1.0,
+    };
+    // Creating an identity Lab profile cannot fail for a valid white.
+    Profile::new_lab4_context(GlobalContext::new(), &white).expect("lcms2 creates a Lab v4 profile")
+}
+
+/// How a screen colour is sent to the press.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct PressMapping {
+    pub intent: RenderingIntent,
+    pub bpc: bool,
+    /// Show the print relative to the paper as measured (absolute
+    /// colorimetric) instead of media-relative.
+    pub paper_white: bool,
+}
+
+type Rgb = [f64; 3];
+type Lab = [f64; 3];
+type Cmyk = [f64; 4];
+
+/// Every transform a palette check needs, built once.
+pub struct PressTransforms {
+    screen_to_lab: Transform<Rgb, Lab>,
+    screen_to_press: Transform<Rgb, Cmyk>,
+    lab_to_press: Transform<Lab, Cmyk>,
+    press_to_lab: Transform<Cmyk, Lab>,
+    /// Relative colorimetric without BPC both ways, for the round-trip gamut test.
+    lab_to_press_colorimetric: Transform<Lab, Cmyk>,
+    press_to_lab_colorimetric: Transform<Cmyk, Lab>,
+}
+
+fn flags(bpc: bool) -> Flags {
+    if bpc {
+        Flags::BLACKPOINT_COMPENSATION
+    } else {
+        Flags::default()
+    }
+}
+
+impl PressTransforms {
+    pub fn new(screen: &IccProfile, press: &IccProfile, mapping: PressMapping) -> Result<Self, IccError> {
+        let lab = lab_d50_profile();
+        let rel = RenderingIntent::Relative;
+        let err = |p: &IccProfile, what: &'static str, intent| IccError::Transform {
+            name: p.name.clone(),
+            what,
+            intent,
+        };
+        let intent = mapping.intent.to_lcms();
+        let shown = if mapping.paper_white {
+            RenderingIntent::Absolute
+        } else {
+            rel
+        };
+        Ok(Self {
+            screen_to_lab: Transform::new(&screen.lcms, PixelFormat::RGB_DBL, &lab, PixelFormat::Lab_DBL, rel.to_lcms())
+                .map_err(|_| err(screen, "screen → CIELAB", rel))?,
+            screen_to_press: Transform::new_flags(
+                &screen.lcms,
+                PixelFormat::RGB_DBL,
+                &press.lcms,
+                PixelFormat::CMYK_DBL,
+                intent,
+                flags(mapping.bpc),
+            )
+            .map_err(|_| err(press, "screen → press", mapping.intent))?,
+            lab_to_press: Transform::new_flags(
+                &lab,
+                PixelFormat::Lab_DBL,
+                &press.lcms,
+                PixelFormat::CMYK_DBL,
+                intent,
+                flags(mapping.bpc),
+            )
+            .map_err(|_| err(press, "CIELAB → press", mapping.intent))?,
+            press_to_lab: Transform::new(&press.lcms, PixelFormat::CMYK_DBL, &lab, PixelFormat::Lab_DBL, shown.to_lcms())
+                .map_err(|_| err(press, "press → CIELAB", shown))?,
+            lab_to_press_colorimetric: Transform::new(&lab, PixelFormat::Lab_DBL, &press.lcms, PixelFormat::CMYK_DBL, rel.to_lcms())
+                .map_err(|_| err(press, "CIELAB → press", rel))?,
+            press_to_lab_colorimetric: Transform::new(&press.lcms, PixelFormat::CMYK_DBL, &lab, PixelFormat::Lab_DBL, rel.to_lcms())
+                .map_err(|_| err(press, "press → CIELAB", rel))?,
+        })
+    }
+
+    /// Screen RGB (encoded, 0..1) → CIELAB D50, relative colorimetric.
+    pub fn screen_lab(&self, rgb: &[Rgb]) -> Vec<LabD50> {
+        run(&self.screen_to_lab, rgb).into_iter().map(LabD50::from_array).collect()
+    }
+
+    /// Screen RGB → press CMYK (percent) with the chosen intent and BPC.
+    pub fn screen_to_press(&self, rgb: &[Rgb]) -> Vec<Cmyk> {
+        run(&self.screen_to_press, rgb)
+    }
+
+    /// CIELAB D50 → press CMYK (percent) with the chosen intent and BPC.
+    pub fn lab_to_press(&self, lab: &[LabD50]) -> Vec<Cmyk> {
+        let v: Vec<Lab> = lab.iter().map(|l| l.to_array()).collect();
+        run(&self.lab_to_press, &v)
+    }
+
+    /// Press CMYK (percent) → CIELAB D50 as printed: media-relative, or
+    /// absolute when the mapping asks for paper white.
+    pub fn printed_lab(&self, cmyk: &[Cmyk]) -> Vec<LabD50> {
+        run(&self.press_to_lab, cmyk).into_iter().map(LabD50::from_array).collect()
+    }
+
+    /// The colorimetric round trip CIELAB → press → CIELAB (relative, no BPC).
+    pub fn round_trip(&self, lab: &[LabD50]) -> Vec<LabD50> {
+        let v: Vec<Lab> = lab.iter().map(|l| l.to_array()).collect();
+        let cmyk = run(&self.lab_to_press_colorimetric, &v);
+        run(&self.press_to_lab_colorimetric, &cmyk)
+            .into_iter()
+            .map(LabD50::from_array)
+            .collect()
+    }
+
+    /// Press CMYK → CIELAB D50, relative colorimetric.
+    pub fn press_lab_colorimetric(&self, cmyk: &[Cmyk]) -> Vec<LabD50> {
+        run(&self.press_to_lab_colorimetric, cmyk)
+            .into_iter()
+            .map(LabD50::from_array)
+            .collect()
+    }
+}
+
+fn run<I: Copy + lcms2::Pod, O: Copy + lcms2::Pod + Default>(t: &Transform<I, O>, input: &[I]) -> Vec<O> {
+    let mut out = vec![O::default(); input.len()];
+    t.transform_pixels(input, &mut out);
+    out
+}
+
+/// Resolves colour inputs to CIELAB D50: screen RGB through `screen`
+/// (relative colorimetric), press CMYK through `press` (relative
+/// colorimetric), CIELAB as given.
+pub fn resolve_lab(
+    inputs: &[crate::color::css::ColorInput],
+    screen: &IccProfile,
+    press: Option<&IccProfile>,
+) -> Result<Vec<LabD50>, IccError> {
+    use crate::color::css::ColorInput;
+    let lab = lab_d50_profile();
+    let rel = RenderingIntent::Relative;
+    let mut out = Vec::with_capacity(inputs.len());
+    for input in inputs {
+        out.push(match *input {
+            ColorInput::Lab(l) => l,
+            ColorInput::ScreenRgb(rgb) => {
+                let t: Transform<Rgb, Lab> =
+                    Transform::new(&screen.lcms, PixelFormat::RGB_DBL, &lab, PixelFormat::Lab_DBL, rel.to_lcms()).map_err(|_| {
+                        IccError::Transform {
+                            name: screen.name.clone(),
+                            what: "screen → CIELAB",
+                            intent: rel,
+                        }
+                    })?;
+                LabD50::from_array(run(&t, &[rgb])[0])
+            }
+            ColorInput::DeviceCmyk(cmyk) => {
+                let press = press.ok_or_else(|| IccError::Transform {
+                    name: "(no press profile)".to_string(),
+                    what: "press → CIELAB",
+                    intent: rel,
+                })?;
+                let t: Transform<Cmyk, Lab> =
+                    Transform::new(&press.lcms, PixelFormat::CMYK_DBL, &lab, PixelFormat::Lab_DBL, rel.to_lcms()).map_err(|_| {
+                        IccError::Transform {
+                            name: press.name.clone(),
+                            what: "press → CIELAB",
+                            intent: rel,
+                        }
+                    })?;
+                LabD50::from_array(run(&t, &[cmyk])[0])
+            }
+        });
+    }
+    Ok(out)
+}

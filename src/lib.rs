@@ -1,0 +1,20 @@
+//! inkfit: screen colours judged against an offset print condition.
+//!
+//! Data flows one way:
+//!
+//! ```text
+//! files ──> icc (profiles) / color::css (colour text) / swatch (palettes)
+//!       ──> analyses (swatch::check, color::delta, icc::inspect)
+//!       ──> plain result structs (serde) ──> report (tables, JSON) ──> io (atomic writes)
+//! ```
+//!
+//! Start reading at [`swatch::check`] for the main job, [`icc`] for profiles
+//! and [`press`] for the built-in press condition.
+
+pub mod cli;
+pub mod color;
+pub mod icc;
+pub mod press;
+pub mod swatch;
+pub mod io;
+pub mod report;

@@ -1,0 +1,232 @@
+//! Renderers: result structs to text tables for people and JSON for scripts.
+//! Every renderer writes to `impl Write` and is deterministic (fixed
+//! precision, stable order).
+
+pub mod table;
+
+use std::io::{self, Write};
+
+use serde::Serialize;
+
+use crate::icc::builtin::BuiltinInfo;
+use crate::icc::inspect::{ProfileReport, TableReport};
+use crate::swatch::check::CheckReport;
+use table::{Align, Table, Tone};
+
+/// Pretty JSON with a final newline.
+pub fn write_json<T: Serialize>(w: &mut dyn Write, value: &T) -> io::Result<()> {
+    serde_json::to_writer_pretty(&mut *w, value)?;
+    writeln!(w)
+}
+
+/// Fixed-precision text; a value that rounds to zero prints without a sign.
+fn f(v: f64, places: usize) -> String {
+    let s = format!("{v:.places$}");
+    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
+        s[1..].to_string()
+    } else {
+        s
+    }
+}
+
+fn lab3(v: [f64; 3]) -> String {
+    format!("{:>5} {:>6} {:>6}", f(v[0], 1), f(v[1], 1), f(v[2], 1))
+}
+
+pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Result<()> {
+    writeln!(w, "palette  {}", r.palette)?;
+    writeln!(w, "screen   {}", r.screen)?;
+    writeln!(w, "press    {}", r.press)?;
+    writeln!(
+        w,
+        "mapping  {}, black point compensation {}{}",
+        r.intent,
+        if r.bpc { "on" } else { "off" },
+        if r.paper_white {
+            "; print shown on the paper's own white (absolute colorimetric)"
+        } else {
+            ""
+        }
+    )?;
+    writeln!(w, "limit    ΔE00 {} (a rule of thumb, not a standard)", f(r.tolerance, 1))?;
+    writeln!(w, "gamut    {}", r.gamut_test)?;
+    for n in &r.notes {
+        writeln!(w, "note     {n}")?;
+    }
+    writeln!(w)?;
+    let mut t = Table::new(&[
+        ("#", Align::Right),
+        ("name", Align::Left),
+        ("colour", Align::Left),
+        ("screen L* a* b*", Align::Right),
+        ("C", Align::Right),
+        ("M", Align::Right),
+        ("Y", Align::Right),
+        ("K", Align::Right),
+        ("ink", Align::Right),
+        ("printed L* a* b*", Align::Right),
+        ("ΔE00", Align::Right),
+        ("gamut", Align::Left),
+        ("verdict", Align::Left),
+    ]);
+    for (i, e) in r.entries.iter().enumerate() {
+        let plain = |s: String| (s, Tone::Plain);
+        t.row(vec![
+            plain((i + 1).to_string()),
+            plain(e.name.clone()),
+            plain(e.input.clone()),
+            plain(lab3(e.screen_lab)),
+            plain(f(e.press_cmyk[0], 0)),
+            plain(f(e.press_cmyk[1], 0)),
+            plain(f(e.press_cmyk[2], 0)),
+            plain(f(e.press_cmyk[3], 0)),
+            plain(f(e.ink_total, 0)),
+            plain(lab3(e.proof_lab)),
+            (f(e.delta_e00, 2), if e.within_tolerance { Tone::Plain } else { Tone::Bad }),
+            if e.in_gamut {
+                plain("inside".into())
+            } else {
+                ("outside".into(), Tone::Bad)
+            },
+            if e.within_tolerance {
+                ("holds".into(), Tone::Good)
+            } else {
+                ("shifts".into(), Tone::Bad)
+            },
+        ]);
+    }
+    t.write(w, color)?;
+    let s = &r.summary;
+    writeln!(w)?;
+    writeln!(
+        w,
+        "{} colours: {} shift beyond ΔE00 {}, {} outside the press gamut; largest ΔE00 {} ({}), mean {}",
+        s.count,
+        s.beyond_tolerance,
+        f(r.tolerance, 1),
+        s.out_of_gamut,
+        f(s.max_delta_e00, 2),
+        s.worst,
+        f(s.mean_delta_e00, 2)
+    )
+}
+
+/// The four colour differences between two colours.
+#[derive(Clone, Debug, Serialize)]
+pub struct DeltaReport {
+    pub a: DeltaColor,
+    pub b: DeltaColor,
+    pub de76: f64,
+    pub de94: f64,
+    pub de00: f64,
+    pub cmc: f64,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct DeltaColor {
+    pub input: String,
+    /// CIELAB D50.
+    pub lab: [f64; 3],
+}
+
+pub fn render_delta(w: &mut dyn Write, r: &DeltaReport) -> io::Result<()> {
+    for (label, c) in [("A", &r.a), ("B", &r.b)] {
+        writeln!(
+            w,
+            "{label}  {:<28} L*a*b* (D50) {} {} {}",
+            c.input, f(c.lab[0], 2), f(c.lab[1], 2), f(c.lab[2], 2)
+        )?;
+    }
+    writeln!(w)?;
+    let mut t = Table::new(&[("formula", Align::Left), ("ΔE", Align::Right)]);
+    for (name, v) in [
+        ("CIE 1976 ΔE*ab", r.de76),
+        ("CIE 1994 ΔE*94 (graphic arts, A as reference)", r.de94),
+        ("CIEDE2000 ΔE00", r.de00),
+        ("CMC(2:1) (A as reference)", r.cmc),
+    ] {
+        t.row(vec![(name.to_string(), Tone::Plain), (f(v, 4), Tone::Plain)]);
+    }
+    t.write(w, false)
+}
+
+fn table_words(t: &TableReport) -> String {
+    match t.status {
+        "own" => format!("own table ({})", t.tag.as_deref().unwrap_or("?")),
+        "same-as" => format!(
+            "{} holds the same data as {}",
+            t.tag.as_deref().unwrap_or("?"),
+            t.served_by.as_deref().unwrap_or("?")
+        ),
+        "falls-back" => format!("no table; falls back to {}", t.served_by.as_deref().unwrap_or("?")),
+        "matrix" => "matrix/TRC model (colorimetric)".to_string(),
+        _ => "none".to_string(),
+    }
+}
+
+pub fn render_inspect(w: &mut dyn Write, r: &ProfileReport) -> io::Result<()> {
+    let opt = |o: &Option<String>| o.clone().unwrap_or_else(|| "(none)".to_string());
+    writeln!(w, "profile      {}{}", r.name, if r.builtin { " (built-in)" } else { "" })?;
+    writeln!(w, "description  {}", opt(&r.description))?;
+    writeln!(w, "copyright    {}", opt(&r.copyright))?;
+    writeln!(w, "ICC version  {}", r.version)?;
+    writeln!(w, "kind         {} (class '{}', data '{}', PCS '{}')", r.class_phrase, r.class, r.color_space, r.pcs)?;
+    writeln!(w, "model        {}", r.model)?;
+    writeln!(w, "created      {}   size {} bytes", r.created, r.size_bytes)?;
+    match (r.white_point_xyz, r.white_point_lab) {
+        (Some(x), Some(l)) => writeln!(
+            w,
+            "media white  XYZ {} {} {}   L*a*b* (D50) {} {} {}",
+            f(x[0], 4), f(x[1], 4), f(x[2], 4), f(l[0], 2), f(l[1], 2), f(l[2], 2)
+        )?,
+        _ => writeln!(w, "media white  (no wtpt tag)")?,
+    }
+    if let Some(p) = &r.primaries {
+        writeln!(
+            w,
+            "primaries    red {:.4} {:.4}  green {:.4} {:.4}  blue {:.4} {:.4}  white {:.4} {:.4}  (xy, {})",
+            p.red[0], p.red[1], p.green[0], p.green[1], p.blue[0], p.blue[1], p.white[0], p.white[1], p.adapted_from
+        )?;
+    }
+    if let (Some(m), Some(how)) = (r.max_ink, &r.max_ink_method) {
+        writeln!(w, "max ink      {m:.1} % ({how})")?;
+    }
+    writeln!(w)?;
+    let mut t = Table::new(&[
+        ("intent", Align::Left),
+        ("device → PCS", Align::Left),
+        ("PCS → device", Align::Left),
+    ]);
+    for i in &r.intents {
+        t.row(vec![
+            (i.intent.to_string(), Tone::Plain),
+            (table_words(&i.to_pcs), Tone::Plain),
+            (table_words(&i.from_pcs), Tone::Plain),
+        ]);
+    }
+    t.write(w, false)?;
+    writeln!(w)?;
+    writeln!(w, "tags         {}", r.tags.join(" "))
+}
+
+pub fn render_profiles(w: &mut dyn Write, list: &[BuiltinInfo]) -> io::Result<()> {
+    let mut t = Table::new(&[
+        ("name", Align::Left),
+        ("role", Align::Left),
+        ("what", Align::Left),
+        ("defined by", Align::Left),
+    ]);
+    for b in list {
+        let role = match b.role {
+            crate::icc::builtin::Role::Screen => "screen",
+            crate::icc::builtin::Role::Press => "press",
+        };
+        t.row(vec![
+            (b.name.to_string(), Tone::Plain),
+            (role.to_string(), Tone::Plain),
+            (b.summary.to_string(), Tone::Plain),
+            (b.definition.to_string(), Tone::Plain),
+        ]);
+    }
+    t.write(w, false)
+}

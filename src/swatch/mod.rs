@@ -1,0 +1,267 @@
+//! Palettes: reading palette files (CSV, JSON, plain text) into named colour
+//! entries in file order, and the analyses over them.
+
+pub mod check;
+
+use std::path::Path;
+
+use crate::color::css::{parse_color, ColorInput, ColorParseError};
+
+/// One palette entry as the designer wrote it.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Entry {
+    pub name: String,
+    /// The colour text exactly as given.
+    pub input: String,
+    pub color: ColorInput,
+    /// Where it was written: a line number (CSV, text) or entry number (JSON), 1-based.
+    pub line: usize,
+}
+
+/// A palette: its entries in file order.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Palette {
+    pub source: String,
+    pub entries: Vec<Entry>,
+}
+
+/// Why a palette could not be read. Each names the file and, where it
+/// applies, the line.
+#[derive(Debug, thiserror::Error)]
+pub enum PaletteError {
+    #[error("palette '{file}': cannot read: {source}")]
+    Read {
+        file: String,
+        #[source]
+        source: std::io::Error,
+    },
+    #[error("palette '{file}', line {line}: {source}")]
+    Color {
+        file: String,
+        line: usize,
+        #[source]
+        source: ColorParseError,
+    },
+    #[error("palette '{file}', entry {entry}: {source}")]
+    JsonColor {
+        file: String,
+        entry: usize,
+        #[source]
+        source: ColorParseError,
+    },
+    #[error("palette '{file}', line {line}: {message}")]
+    Syntax { file: String, line: usize, message: String },
+    #[error("palette '{file}': {message}")]
+    Format { file: String, message: String },
+    #[error("palette '{file}': no colours in it")]
+    Empty { file: String },
+}
+
+/// The palette file formats inkfit reads.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Format {
+    Csv,
+    Json,
+    Text,
+}
+
+impl Format {
+    /// By extension: `.csv`, `.json`; anything else is plain text.
+    pub fn of_path(path: &Path) -> Format {
+        match path.extension().and_then(|e| e.to_str()).map(str::to_ascii_lowercase).as_deref() {
+            Some("csv") => Format::Csv,
+            Some("json") => Format::Json,
+            _ => Format::Text,
+        }
+    }
+}
+
+impl Palette {
+    /// Reads a palette file, choosing the format by extension.
+    pub fn read(path: &Path) -> Result<Palette, PaletteError> {
+        let file = path.display().to_string();
+        let text = std::fs::read_to_string(path).map_err(|source| PaletteError::Read {
+            file: file.clone(),
+            source,
+        })?;
+        Palette::parse(&file, &text, Format::of_path(path))
+    }
+
+    /// Parses palette text; `file` names it in errors.
+    pub fn parse(file: &str, text: &str, format: Format) -> Result<Palette, PaletteError> {
+        let entries = match format {
+            Format::Csv => parse_csv(file, text)?,
+            Format::Json => parse_json(file, text)?,
+            Format::Text => parse_text(file, text)?,
+        };
+        if entries.is_empty() {
+            return Err(PaletteError::Empty { file: file.to_string() });
+        }
+        Ok(Palette {
+            source: file.to_string(),
+            entries,
+        })
+    }
+}
+
+const NAME_HEADERS: &[&str] = &["name", "label", "class", "title", "id"];
+const COLOR_HEADERS: &[&str] = &["color", "colour", "value", "hex", "css"];
+
+fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
+    let syntax = |line: usize, message: String| PaletteError::Syntax {
+        file: file.to_string(),
+        line,
+        message,
+    };
+    let mut reader = csv::ReaderBuilder::new()
+        .has_headers(true)
+        .flexible(true)
+        .trim(csv::Trim::All)
+        .comment(None)
+        .from_reader(text.as_bytes());
+    let headers = reader
+        .headers()
+        .map_err(|e| syntax(1, format!("cannot read the header row: {e}")))?
+        .clone();
+    let find = |names: &[&str]| {
+        headers
+            .iter()
+            .position(|h| names.iter().any(|n| h.trim_start_matches('\u{feff}').eq_ignore_ascii_case(n)))
+    };
+    let color_col = find(COLOR_HEADERS).ok_or_else(|| {
+        syntax(
+            1,
+            format!("no colour column in the header (expected one of: {})", COLOR_HEADERS.join(", ")),
+        )
+    })?;
+    let name_col = find(NAME_HEADERS);
+    let mut entries = Vec::new();
+    for record in reader.records() {
+        let record = record.map_err(|e| {
+            let line = e.position().map_or(0, |p| p.line() as usize);
+            syntax(line, format!("not valid CSV: {e}"))
+        })?;
+        let line = record.position().map_or(0, |p| p.line() as usize);
+        if record.iter().all(str::is_empty) {
+            continue;
+        }
+        let input = record
+            .get(color_col)
+            .filter(|s| !s.is_empty())
+            .ok_or_else(|| syntax(line, "the colour field is empty".to_string()))?;
+        let color = parse_color(input).map_err(|source| PaletteError::Color {
+            file: file.to_string(),
+            line,
+            source,
+        })?;
+        let name = name_col.and_then(|c| record.get(c)).filter(|s| !s.is_empty()).unwrap_or(input);
+        entries.push(Entry {
+            name: name.to_string(),
+            input: input.to_string(),
+            color,
+            line,
+        });
+    }
+    Ok(entries)
+}
+
+fn parse_json(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
+    let value: serde_json::Value = serde_json::from_str(text).map_err(|e| PaletteError::Syntax {
+        file: file.to_string(),
+        line: e.line(),
+        message: format!("not valid JSON: {e}"),
+    })?;
+    let format_err = |message: String| PaletteError::Format {
+        file: file.to_string(),
+        message,
+    };
+    let items = value
+        .as_array()
+        .ok_or_else(|| format_err("expected a JSON array of {\"name\", \"color\"} objects".to_string()))?;
+    let mut entries = Vec::new();
+    for (i, item) in items.iter().enumerate() {
+        let n = i + 1;
+        let obj = item
+            .as_object()
+            .ok_or_else(|| format_err(format!("entry {n} is not an object with \"name\" and \"color\"")))?;
+        let input = obj
+            .get("color")
+            .or_else(|| obj.get("colour"))
+            .and_then(|v| v.as_str())
+            .ok_or_else(|| format_err(format!("entry {n} has no \"color\" string")))?;
+        let color = parse_color(input).map_err(|source| PaletteError::JsonColor {
+            file: file.to_string(),
+            entry: n,
+            source,
+        })?;
+        let name = match obj.get("name") {
+            None | Some(serde_json::Value::Null) => input.to_string(),
+            Some(serde_json::Value::String(s)) => s.clone(),
+            Some(other) => other.to_string(),
+        };
+        entries.push(Entry {
+            name,
+            input: input.to_string(),
+            color,
+            line: n,
+        });
+    }
+    Ok(entries)
+}
+
+/// Splits a plain-text line into the colour text and the rest. A colour is a
+/// function call `name( … )`, or a run of non-space characters.
+fn split_color(line: &str) -> Result<(&str, &str), String> {
+    let ident_end = line
+        .find(|c: char| !(c.is_ascii_alphanumeric() || c == '-' || c == '_'))
+        .unwrap_or(line.len());
+    if ident_end > 0 && line[ident_end..].starts_with('(') {
+        let close = line.find(')').ok_or_else(|| format!("\"{line}\": the colour function is not closed with ')'"))?;
+        Ok((&line[..=close], line[close + 1..].trim()))
+    } else {
+        let end = line.find(char::is_whitespace).unwrap_or(line.len());
+        Ok((&line[..end], line[end..].trim()))
+    }
+}
+
+/// True when `#` starts a hex colour (`#rgb`, `#rgba`, `#rrggbb`, `#rrggbbaa`)
+/// rather than a comment.
+fn is_hex_color(s: &str) -> bool {
+    let Some(rest) = s.strip_prefix('#') else { return false };
+    let hex: String = rest.chars().take_while(|c| !c.is_whitespace()).collect();
+    matches!(hex.len(), 3 | 4 | 6 | 8) && hex.chars().all(|c| c.is_ascii_hexdigit())
+}
+
+fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
+    let mut entries = Vec::new();
+    for (i, raw) in text.lines().enumerate() {
+        let line = i + 1;
+        let mut s = raw.trim();
+        if s.is_empty() || (s.starts_with('#') && !is_hex_color(s)) {
+            continue;
+        }
+        // A comment after the entry: whitespace then '#' not starting a hex colour.
+        if let Some(pos) = s.char_indices().find_map(|(p, c)| {
+            (c == '#' && p > 0 && s[..p].ends_with(char::is_whitespace) && !is_hex_color(&s[p..])).then_some(p)
+        }) {
+            s = s[..pos].trim_end();
+        }
+        let (input, name) = split_color(s).map_err(|message| PaletteError::Syntax {
+            file: file.to_string(),
+            line,
+            message,
+        })?;
+        let color = parse_color(input).map_err(|source| PaletteError::Color {
+            file: file.to_string(),
+            line,
+            source,
+        })?;
+        entries.push(Entry {
+            name: if name.is_empty() { input.to_string() } else { name.to_string() },
+            input: input.to_string(),
+            color,
+            line,
+        });
+    }
+    Ok(entries)
+}
