@@ -48,7 +48,11 @@ mod tests {
         });
         assert!(r.is_err());
         assert_eq!(std::fs::read_to_string(&target).unwrap(), "old");
-        assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 1, "temporary file left behind");
+        assert_eq!(
+            std::fs::read_dir(dir.path()).unwrap().count(),
+            1,
+            "temporary file left behind"
+        );
     }
 
     #[test]

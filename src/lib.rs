@@ -14,7 +14,7 @@
 pub mod cli;
 pub mod color;
 pub mod icc;
-pub mod press;
-pub mod swatch;
 pub mod io;
+pub mod press;
 pub mod report;
+pub mod swatch;

@@ -126,8 +126,8 @@ fn run_profiles(a: ProfilesArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
 }
 
 fn run_build_press(a: BuildPressArgs) -> Result<Outcome, Error> {
-    let cond = crate::press::builtin_press(&a.name)
-        .ok_or_else(|| format!("no built-in press condition '{}'", a.name))?;
+    let cond =
+        crate::press::builtin_press(&a.name).ok_or_else(|| format!("no built-in press condition '{}'", a.name))?;
     let bytes = crate::press::build_icc(&cond)?;
     crate::io::write_atomic(&a.out, |w| w.write_all(&bytes))
         .map_err(|e| format!("cannot write '{}': {e}", a.out.display()))?;

@@ -95,5 +95,9 @@ pub fn delta_e00(lab1: LabD50, lab2: LabD50) -> f64 {
     (tl * tl + tc * tc + th * th + rt * tc * th).sqrt()
 }
 // TEMPORARY lead shim, replaced at merge.
-pub fn delta_e94(a: LabD50, b: LabD50) -> f64 { delta_e76(a, b) }
-pub fn delta_e_cmc(a: LabD50, b: LabD50, _l: f64, _c: f64) -> f64 { delta_e76(a, b) }
+pub fn delta_e94(a: LabD50, b: LabD50) -> f64 {
+    delta_e76(a, b)
+}
+pub fn delta_e_cmc(a: LabD50, b: LabD50, _l: f64, _c: f64) -> f64 {
+    delta_e76(a, b)
+}

@@ -15,7 +15,11 @@ pub mod spaces;
 use serde::Serialize;
 
 /// The ICC PCS illuminant D50 (ICC.1:2010, 7.2.16), Y = 1.
-pub const D50: Xyz = Xyz { x: 0.9642, y: 1.0, z: 0.8249 };
+pub const D50: Xyz = Xyz {
+    x: 0.9642,
+    y: 1.0,
+    z: 0.8249,
+};
 
 /// CIE D65 from its chromaticity (0.3127, 0.3290), the white of the CSS RGB
 /// spaces and of the IEC/ITU display standards.
@@ -178,7 +182,12 @@ mod tests {
 
     #[test]
     fn lab_xyz_round_trip() {
-        for &(l, a, b) in &[(0.0, 0.0, 0.0), (5.0, 20.0, -30.0), (50.0, 60.0, 40.0), (97.0, -5.0, 90.0)] {
+        for &(l, a, b) in &[
+            (0.0, 0.0, 0.0),
+            (5.0, 20.0, -30.0),
+            (50.0, 60.0, 40.0),
+            (97.0, -5.0, 90.0),
+        ] {
             let lab = LabD50::new(l, a, b);
             let back = LabD50::from_xyz(lab.to_xyz());
             assert!((back.l - l).abs() < 1e-9 && (back.a - a).abs() < 1e-9 && (back.b - b).abs() < 1e-9);

@@ -163,7 +163,8 @@ fn screen(info: &BuiltinInfo) -> Result<Vec<u8>, String> {
         Green: xyy(def.primaries[1]),
         Blue: xyy(def.primaries[2]),
     };
-    let mut profile = Profile::new_rgb(&xyy(def.white), &primaries, &[&curve, &curve, &curve]).map_err(|e| e.to_string())?;
+    let mut profile =
+        Profile::new_rgb(&xyy(def.white), &primaries, &[&curve, &curve, &curve]).map_err(|e| e.to_string())?;
     let description = format!("inkfit {}: {}", info.name, info.definition);
     set_text(&mut profile, TagSignature::ProfileDescriptionTag, &description)?;
     set_text(

@@ -47,7 +47,13 @@ impl fmt::Display for Signature {
         let text: String = self
             .0
             .iter()
-            .map(|&b| if b.is_ascii_graphic() || b == b' ' { b as char } else { '?' })
+            .map(|&b| {
+                if b.is_ascii_graphic() || b == b' ' {
+                    b as char
+                } else {
+                    '?'
+                }
+            })
             .collect();
         f.write_str(text.trim_end())
     }
@@ -127,10 +133,7 @@ impl Header {
         }
         let declared = be_u32(bytes, 0) as usize;
         if declared > len {
-            return Err(HeaderError::Truncated {
-                declared,
-                actual: len,
-            });
+            return Err(HeaderError::Truncated { declared, actual: len });
         }
         let count = be_u32(bytes, 128) as usize;
         if count > (declared.saturating_sub(132)) / 12 {

@@ -170,11 +170,19 @@ fn mul(m: [[f64; 3]; 3], v: [f64; 3]) -> [f64; 3] {
 /// Bradford chromatic adaptation matrix from white `src` to white `dst`
 /// (Lam 1985; the form used in ICC.1:2010 Annex E).
 pub fn bradford(src: [f64; 3], dst: [f64; 3]) -> [[f64; 3]; 3] {
-    const B: [[f64; 3]; 3] = [[0.8951, 0.2664, -0.1614], [-0.7502, 1.7135, 0.0367], [0.0389, -0.0685, 1.0296]];
+    const B: [[f64; 3]; 3] = [
+        [0.8951, 0.2664, -0.1614],
+        [-0.7502, 1.7135, 0.0367],
+        [0.0389, -0.0685, 1.0296],
+    ];
     let bi = invert3(B).unwrap_or(B);
     let s = mul(B, src);
     let d = mul(B, dst);
-    let scale = [[d[0] / s[0], 0.0, 0.0], [0.0, d[1] / s[1], 0.0], [0.0, 0.0, d[2] / s[2]]];
+    let scale = [
+        [d[0] / s[0], 0.0, 0.0],
+        [0.0, d[1] / s[1], 0.0],
+        [0.0, 0.0, d[2] / s[2]],
+    ];
     let mm = |a: [[f64; 3]; 3], b: [[f64; 3]; 3]| {
         let mut r = [[0.0; 3]; 3];
         for i in 0..3 {
@@ -188,7 +196,9 @@ pub fn bradford(src: [f64; 3], dst: [f64; 3]) -> [[f64; 3]; 3] {
 }
 
 fn xy_of(v: [f64; 3]) -> [f64; 2] {
-    let c = Xyz::new(v[0], v[1], v[2]).chromaticity().unwrap_or(Xy { x: 0.0, y: 0.0 });
+    let c = Xyz::new(v[0], v[1], v[2])
+        .chromaticity()
+        .unwrap_or(Xy { x: 0.0, y: 0.0 });
     [round6(c.x), round6(c.y)]
 }
 
@@ -207,7 +217,10 @@ fn primaries(p: &IccProfile) -> Option<Primaries> {
     // chad maps the actual illuminant to D50; its inverse undoes the adaptation.
     let (to_actual, from) = match h.tag(b"chad").and_then(|t| read_matrix3(&p.bytes, t)) {
         Some(chad) => (invert3(chad)?, "chad tag"),
-        None => (bradford(D50.to_array(), wtpt), "Bradford to the media white (no chad tag)"),
+        None => (
+            bradford(D50.to_array(), wtpt),
+            "Bradford to the media white (no chad tag)",
+        ),
     };
     let white = match h.tag(b"chad") {
         Some(_) => mul(to_actual, wtpt),
@@ -248,7 +261,11 @@ fn max_ink_samples() -> Vec<[f64; 3]> {
     for i in 0..=16 {
         for j in 0..=16 {
             for k in 0..=16 {
-                v.push([100.0 * f64::from(i) / 16.0, -128.0 + 16.0 * f64::from(j), -128.0 + 16.0 * f64::from(k)]);
+                v.push([
+                    100.0 * f64::from(i) / 16.0,
+                    -128.0 + 16.0 * f64::from(j),
+                    -128.0 + 16.0 * f64::from(k),
+                ]);
             }
         }
     }

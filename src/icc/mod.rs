@@ -185,9 +185,7 @@ impl IccProfile {
             name: name.to_string(),
             source,
         })?;
-        let lcms = lcms2::Profile::new_icc(&bytes).map_err(|_| IccError::Open {
-            name: name.to_string(),
-        })?;
+        let lcms = lcms2::Profile::new_icc(&bytes).map_err(|_| IccError::Open { name: name.to_string() })?;
         Ok(Self {
             name: name.to_string(),
             origin,
@@ -247,7 +245,12 @@ impl IccProfile {
 
     /// True for a matrix/TRC RGB or grey model (ICC.1:2010, F.3).
     pub fn is_matrix_shaper(&self) -> bool {
-        (self.has(b"rXYZ") && self.has(b"gXYZ") && self.has(b"bXYZ") && self.has(b"rTRC") && self.has(b"gTRC") && self.has(b"bTRC"))
+        (self.has(b"rXYZ")
+            && self.has(b"gXYZ")
+            && self.has(b"bXYZ")
+            && self.has(b"rTRC")
+            && self.has(b"gTRC")
+            && self.has(b"bTRC"))
             || self.has(b"kTRC")
     }
 
@@ -274,7 +277,10 @@ impl IccProfile {
                 for other in (0..3u8).filter(|&o| o != own) {
                     if let Some(o) = entry(other) {
                         if same_data(&self.bytes, e, o) && other < own {
-                            return TableUse::SameAs { tag: e.sig, other: o.sig };
+                            return TableUse::SameAs {
+                                tag: e.sig,
+                                other: o.sig,
+                            };
                         }
                     }
                 }
@@ -310,8 +316,8 @@ impl IccProfile {
 
 /// Two tag entries hold the same data: one shared offset, or equal bytes.
 fn same_data(bytes: &[u8], a: TagEntry, b: TagEntry) -> bool {
-    (a.offset == b.offset && a.size == b.size)
-        || (a.size == b.size && bytes[a.offset..a.offset + a.size] == bytes[b.offset..b.offset + b.size])
+    a.size == b.size
+        && (a.offset == b.offset || bytes[a.offset..a.offset + a.size] == bytes[b.offset..b.offset + b.size])
 }
 
 fn intent_of_tag(sig: Signature) -> &'static str {

@@ -68,8 +68,14 @@ impl PressTransforms {
             rel
         };
         Ok(Self {
-            screen_to_lab: Transform::new(&screen.lcms, PixelFormat::RGB_DBL, &lab, PixelFormat::Lab_DBL, rel.to_lcms())
-                .map_err(|_| err(screen, "screen → CIELAB", rel))?,
+            screen_to_lab: Transform::new(
+                &screen.lcms,
+                PixelFormat::RGB_DBL,
+                &lab,
+                PixelFormat::Lab_DBL,
+                rel.to_lcms(),
+            )
+            .map_err(|_| err(screen, "screen → CIELAB", rel))?,
             screen_to_press: Transform::new_flags(
                 &screen.lcms,
                 PixelFormat::RGB_DBL,
@@ -88,18 +94,39 @@ impl PressTransforms {
                 flags(mapping.bpc),
             )
             .map_err(|_| err(press, "CIELAB → press", mapping.intent))?,
-            press_to_lab: Transform::new(&press.lcms, PixelFormat::CMYK_DBL, &lab, PixelFormat::Lab_DBL, shown.to_lcms())
-                .map_err(|_| err(press, "press → CIELAB", shown))?,
-            lab_to_press_colorimetric: Transform::new(&lab, PixelFormat::Lab_DBL, &press.lcms, PixelFormat::CMYK_DBL, rel.to_lcms())
-                .map_err(|_| err(press, "CIELAB → press", rel))?,
-            press_to_lab_colorimetric: Transform::new(&press.lcms, PixelFormat::CMYK_DBL, &lab, PixelFormat::Lab_DBL, rel.to_lcms())
-                .map_err(|_| err(press, "press → CIELAB", rel))?,
+            press_to_lab: Transform::new(
+                &press.lcms,
+                PixelFormat::CMYK_DBL,
+                &lab,
+                PixelFormat::Lab_DBL,
+                shown.to_lcms(),
+            )
+            .map_err(|_| err(press, "press → CIELAB", shown))?,
+            lab_to_press_colorimetric: Transform::new(
+                &lab,
+                PixelFormat::Lab_DBL,
+                &press.lcms,
+                PixelFormat::CMYK_DBL,
+                rel.to_lcms(),
+            )
+            .map_err(|_| err(press, "CIELAB → press", rel))?,
+            press_to_lab_colorimetric: Transform::new(
+                &press.lcms,
+                PixelFormat::CMYK_DBL,
+                &lab,
+                PixelFormat::Lab_DBL,
+                rel.to_lcms(),
+            )
+            .map_err(|_| err(press, "press → CIELAB", rel))?,
         })
     }
 
     /// Screen RGB (encoded, 0..1) → CIELAB D50, relative colorimetric.
     pub fn screen_lab(&self, rgb: &[Rgb]) -> Vec<LabD50> {
-        run(&self.screen_to_lab, rgb).into_iter().map(LabD50::from_array).collect()
+        run(&self.screen_to_lab, rgb)
+            .into_iter()
+            .map(LabD50::from_array)
+            .collect()
     }
 
     /// Screen RGB → press CMYK (percent) with the chosen intent and BPC.
@@ -116,7 +143,10 @@ impl PressTransforms {
     /// Press CMYK (percent) → CIELAB D50 as printed: media-relative, or
     /// absolute when the mapping asks for paper white.
     pub fn printed_lab(&self, cmyk: &[Cmyk]) -> Vec<LabD50> {
-        run(&self.press_to_lab, cmyk).into_iter().map(LabD50::from_array).collect()
+        run(&self.press_to_lab, cmyk)
+            .into_iter()
+            .map(LabD50::from_array)
+            .collect()
     }
 
     /// The colorimetric round trip CIELAB → press → CIELAB (relative, no BPC).
@@ -160,14 +190,18 @@ pub fn resolve_lab(
         out.push(match *input {
             ColorInput::Lab(l) => l,
             ColorInput::ScreenRgb(rgb) => {
-                let t: Transform<Rgb, Lab> =
-                    Transform::new(&screen.lcms, PixelFormat::RGB_DBL, &lab, PixelFormat::Lab_DBL, rel.to_lcms()).map_err(|_| {
-                        IccError::Transform {
-                            name: screen.name.clone(),
-                            what: "screen → CIELAB",
-                            intent: rel,
-                        }
-                    })?;
+                let t: Transform<Rgb, Lab> = Transform::new(
+                    &screen.lcms,
+                    PixelFormat::RGB_DBL,
+                    &lab,
+                    PixelFormat::Lab_DBL,
+                    rel.to_lcms(),
+                )
+                .map_err(|_| IccError::Transform {
+                    name: screen.name.clone(),
+                    what: "screen → CIELAB",
+                    intent: rel,
+                })?;
                 LabD50::from_array(run(&t, &[rgb])[0])
             }
             ColorInput::DeviceCmyk(cmyk) => {
@@ -176,14 +210,18 @@ pub fn resolve_lab(
                     what: "press → CIELAB",
                     intent: rel,
                 })?;
-                let t: Transform<Cmyk, Lab> =
-                    Transform::new(&press.lcms, PixelFormat::CMYK_DBL, &lab, PixelFormat::Lab_DBL, rel.to_lcms()).map_err(|_| {
-                        IccError::Transform {
-                            name: press.name.clone(),
-                            what: "press → CIELAB",
-                            intent: rel,
-                        }
-                    })?;
+                let t: Transform<Cmyk, Lab> = Transform::new(
+                    &press.lcms,
+                    PixelFormat::CMYK_DBL,
+                    &lab,
+                    PixelFormat::Lab_DBL,
+                    rel.to_lcms(),
+                )
+                .map_err(|_| IccError::Transform {
+                    name: press.name.clone(),
+                    what: "press → CIELAB",
+                    intent: rel,
+                })?;
                 LabD50::from_array(run(&t, &[cmyk])[0])
             }
         });

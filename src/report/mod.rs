@@ -48,7 +48,11 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
             ""
         }
     )?;
-    writeln!(w, "limit    ΔE00 {} (a rule of thumb, not a standard)", f(r.tolerance, 1))?;
+    writeln!(
+        w,
+        "limit    ΔE00 {} (a rule of thumb, not a standard)",
+        f(r.tolerance, 1)
+    )?;
     writeln!(w, "gamut    {}", r.gamut_test)?;
     for n in &r.notes {
         writeln!(w, "note     {n}")?;
@@ -82,7 +86,10 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
             plain(f(e.press_cmyk[3], 0)),
             plain(f(e.ink_total, 0)),
             plain(lab3(e.proof_lab)),
-            (f(e.delta_e00, 2), if e.within_tolerance { Tone::Plain } else { Tone::Bad }),
+            (
+                f(e.delta_e00, 2),
+                if e.within_tolerance { Tone::Plain } else { Tone::Bad },
+            ),
             if e.in_gamut {
                 plain("inside".into())
             } else {
@@ -134,7 +141,10 @@ pub fn render_delta(w: &mut dyn Write, r: &DeltaReport) -> io::Result<()> {
         writeln!(
             w,
             "{label}  {:<28} L*a*b* (D50) {} {} {}",
-            c.input, f(c.lab[0], 2), f(c.lab[1], 2), f(c.lab[2], 2)
+            c.input,
+            f(c.lab[0], 2),
+            f(c.lab[1], 2),
+            f(c.lab[2], 2)
         )?;
     }
     writeln!(w)?;
@@ -166,18 +176,32 @@ fn table_words(t: &TableReport) -> String {
 
 pub fn render_inspect(w: &mut dyn Write, r: &ProfileReport) -> io::Result<()> {
     let opt = |o: &Option<String>| o.clone().unwrap_or_else(|| "(none)".to_string());
-    writeln!(w, "profile      {}{}", r.name, if r.builtin { " (built-in)" } else { "" })?;
+    writeln!(
+        w,
+        "profile      {}{}",
+        r.name,
+        if r.builtin { " (built-in)" } else { "" }
+    )?;
     writeln!(w, "description  {}", opt(&r.description))?;
     writeln!(w, "copyright    {}", opt(&r.copyright))?;
     writeln!(w, "ICC version  {}", r.version)?;
-    writeln!(w, "kind         {} (class '{}', data '{}', PCS '{}')", r.class_phrase, r.class, r.color_space, r.pcs)?;
+    writeln!(
+        w,
+        "kind         {} (class '{}', data '{}', PCS '{}')",
+        r.class_phrase, r.class, r.color_space, r.pcs
+    )?;
     writeln!(w, "model        {}", r.model)?;
     writeln!(w, "created      {}   size {} bytes", r.created, r.size_bytes)?;
     match (r.white_point_xyz, r.white_point_lab) {
         (Some(x), Some(l)) => writeln!(
             w,
             "media white  XYZ {} {} {}   L*a*b* (D50) {} {} {}",
-            f(x[0], 4), f(x[1], 4), f(x[2], 4), f(l[0], 2), f(l[1], 2), f(l[2], 2)
+            f(x[0], 4),
+            f(x[1], 4),
+            f(x[2], 4),
+            f(l[0], 2),
+            f(l[1], 2),
+            f(l[2], 2)
         )?,
         _ => writeln!(w, "media white  (no wtpt tag)")?,
     }

@@ -89,7 +89,12 @@ fn round_all<const N: usize>(v: [f64; N], places: i32) -> [f64; N] {
 }
 
 /// Runs the check of `palette` from `screen` onto `press`.
-pub fn check(palette: &Palette, screen: &IccProfile, press: &IccProfile, opts: CheckOptions) -> Result<CheckReport, IccError> {
+pub fn check(
+    palette: &Palette,
+    screen: &IccProfile,
+    press: &IccProfile,
+    opts: CheckOptions,
+) -> Result<CheckReport, IccError> {
     let t = PressTransforms::new(screen, press, opts.mapping)?;
     let n = palette.entries.len();
 
@@ -171,12 +176,10 @@ pub fn check(palette: &Palette, screen: &IccProfile, press: &IccProfile, opts: C
 }
 
 fn summarise(entries: &[CheckedEntry]) -> CheckSummary {
-    let worst = entries
-        .iter()
-        .fold(None::<&CheckedEntry>, |w, e| match w {
-            Some(w) if w.delta_e00 >= e.delta_e00 => Some(w),
-            _ => Some(e),
-        });
+    let worst = entries.iter().fold(None::<&CheckedEntry>, |w, e| match w {
+        Some(w) if w.delta_e00 >= e.delta_e00 => Some(w),
+        _ => Some(e),
+    });
     let sum: f64 = entries.iter().map(|e| e.delta_e00).sum();
     CheckSummary {
         count: entries.len(),

@@ -68,7 +68,12 @@ pub enum Format {
 impl Format {
     /// By extension: `.csv`, `.json`; anything else is plain text.
     pub fn of_path(path: &Path) -> Format {
-        match path.extension().and_then(|e| e.to_str()).map(str::to_ascii_lowercase).as_deref() {
+        match path
+            .extension()
+            .and_then(|e| e.to_str())
+            .map(str::to_ascii_lowercase)
+            .as_deref()
+        {
             Some("csv") => Format::Csv,
             Some("json") => Format::Json,
             _ => Format::Text,
@@ -124,14 +129,19 @@ fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
         .map_err(|e| syntax(1, format!("cannot read the header row: {e}")))?
         .clone();
     let find = |names: &[&str]| {
-        headers
-            .iter()
-            .position(|h| names.iter().any(|n| h.trim_start_matches('\u{feff}').eq_ignore_ascii_case(n)))
+        headers.iter().position(|h| {
+            names
+                .iter()
+                .any(|n| h.trim_start_matches('\u{feff}').eq_ignore_ascii_case(n))
+        })
     };
     let color_col = find(COLOR_HEADERS).ok_or_else(|| {
         syntax(
             1,
-            format!("no colour column in the header (expected one of: {})", COLOR_HEADERS.join(", ")),
+            format!(
+                "no colour column in the header (expected one of: {})",
+                COLOR_HEADERS.join(", ")
+            ),
         )
     })?;
     let name_col = find(NAME_HEADERS);
@@ -154,7 +164,10 @@ fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             line,
             source,
         })?;
-        let name = name_col.and_then(|c| record.get(c)).filter(|s| !s.is_empty()).unwrap_or(input);
+        let name = name_col
+            .and_then(|c| record.get(c))
+            .filter(|s| !s.is_empty())
+            .unwrap_or(input);
         entries.push(Entry {
             name: name.to_string(),
             input: input.to_string(),
@@ -216,7 +229,9 @@ fn split_color(line: &str) -> Result<(&str, &str), String> {
         .find(|c: char| !(c.is_ascii_alphanumeric() || c == '-' || c == '_'))
         .unwrap_or(line.len());
     if ident_end > 0 && line[ident_end..].starts_with('(') {
-        let close = line.find(')').ok_or_else(|| format!("\"{line}\": the colour function is not closed with ')'"))?;
+        let close = line
+            .find(')')
+            .ok_or_else(|| format!("\"{line}\": the colour function is not closed with ')'"))?;
         Ok((&line[..=close], line[close + 1..].trim()))
     } else {
         let end = line.find(char::is_whitespace).unwrap_or(line.len());
@@ -257,7 +272,11 @@ fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             source,
         })?;
         entries.push(Entry {
-            name: if name.is_empty() { input.to_string() } else { name.to_string() },
+            name: if name.is_empty() {
+                input.to_string()
+            } else {
+                name.to_string()
+            },
             input: input.to_string(),
             color,
             line,

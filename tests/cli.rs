@@ -1,0 +1,397 @@
+//! Integration tests: the real `inkfit` binary on temporary folders.
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output, Stdio};
+
+use serde_json::Value;
+
+fn bin() -> Command {
+    let mut c = Command::new(env!("CARGO_BIN_EXE_inkfit"));
+    c.env("NO_COLOR", "1");
+    c
+}
+
+fn run(args: &[&str]) -> Output {
+    bin().args(args).output().expect("inkfit runs")
+}
+
+fn demo(name: &str) -> String {
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("fixtures/demo")
+        .join(name)
+        .display()
+        .to_string()
+}
+
+fn stdout(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stdout).into_owned()
+}
+
+fn stderr(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stderr).into_owned()
+}
+
+fn json(o: &Output) -> Value {
+    serde_json::from_slice(&o.stdout).unwrap_or_else(|e| panic!("not JSON ({e}):\n{}", stdout(o)))
+}
+
+/// Asserts a clean failure: exit 2, one line on stderr that mentions each of `needles`.
+fn assert_error(o: &Output, needles: &[&str]) {
+    let err = stderr(o);
+    assert_eq!(o.status.code(), Some(2), "exit code; stderr: {err}");
+    assert_eq!(err.trim_end().lines().count(), 1, "one line expected:\n{err}");
+    assert!(err.starts_with("inkfit: error: "), "{err}");
+    for n in needles {
+        assert!(err.contains(n), "stderr should mention {n:?}:\n{err}");
+    }
+    assert!(!err.contains("panicked"), "{err}");
+}
+
+fn temp_file(dir: &Path, name: &str, bytes: &[u8]) -> PathBuf {
+    let p = dir.join(name);
+    std::fs::write(&p, bytes).unwrap();
+    p
+}
+
+fn builtin_bytes(name: &str) -> Vec<u8> {
+    inkfit::icc::builtin::bytes(name).unwrap().unwrap()
+}
+
+#[test]
+fn check_demo_on_defaults_runs_and_exits_zero() {
+    let o = run(&["check", &demo("landuse.csv")]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let out = stdout(&o);
+    for needle in [
+        "srgb",
+        "offset-coated",
+        "relative colorimetric",
+        "Woodland",
+        "Open water",
+        "9 colours",
+    ] {
+        assert!(out.contains(needle), "missing {needle:?} in:\n{out}");
+    }
+    assert!(!out.contains("\x1b["), "no colour codes when NO_COLOR is set");
+}
+
+#[test]
+fn check_json_has_the_documented_keys_and_a_consistent_summary() {
+    let o = run(&["check", &demo("landuse.csv"), "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v = json(&o);
+    for k in ["screen", "press", "intent", "bpc", "tolerance", "entries", "summary"] {
+        assert!(v.get(k).is_some(), "key {k}");
+    }
+    assert_eq!(v["intent"], "relative");
+    assert_eq!(v["bpc"], true);
+    let entries = v["entries"].as_array().unwrap();
+    assert_eq!(entries.len(), 9);
+    assert_eq!(entries[0]["name"], "Woodland", "file order is kept");
+    let mut beyond = 0;
+    let mut outside = 0;
+    let mut max: f64 = 0.0;
+    for e in entries {
+        for k in [
+            "name",
+            "input",
+            "screen_lab",
+            "press_cmyk",
+            "ink_total",
+            "proof_lab",
+            "delta_e00",
+            "in_gamut",
+            "within_tolerance",
+        ] {
+            assert!(e.get(k).is_some(), "entry key {k}");
+        }
+        let cmyk: Vec<f64> = e["press_cmyk"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|x| x.as_f64().unwrap())
+            .collect();
+        assert_eq!(cmyk.len(), 4);
+        let ink: f64 = cmyk.iter().sum();
+        assert!(
+            (ink - e["ink_total"].as_f64().unwrap()).abs() < 0.3,
+            "ink_total is the CMYK sum"
+        );
+        assert!(ink <= 330.5, "total ink within the press's 330 % limit: {ink}");
+        let de = e["delta_e00"].as_f64().unwrap();
+        assert_eq!(e["within_tolerance"].as_bool().unwrap(), de <= 3.0);
+        beyond += usize::from(de > 3.0);
+        outside += usize::from(!e["in_gamut"].as_bool().unwrap());
+        max = max.max(de);
+    }
+    let s = &v["summary"];
+    assert_eq!(s["count"], 9);
+    assert_eq!(s["beyond_tolerance"].as_u64().unwrap() as usize, beyond);
+    assert_eq!(s["out_of_gamut"].as_u64().unwrap() as usize, outside);
+    assert_eq!(s["max_delta_e00"].as_f64().unwrap(), max);
+    assert!(outside >= 2, "the demo has colours outside the press gamut");
+    assert!(beyond >= 1, "the demo has colours that shift visibly");
+}
+
+#[test]
+fn strict_exits_one_only_when_something_is_beyond_tolerance() {
+    let o = run(&["check", &demo("landuse.csv"), "--strict"]);
+    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
+    let o = run(&["check", &demo("landuse.csv"), "--strict", "--tolerance", "100"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+}
+
+#[test]
+fn in_gamut_colours_print_close_to_the_screen() {
+    // A muted mid grey-green is well inside any coated offset gamut.
+    let dir = tempfile::tempdir().unwrap();
+    let p = temp_file(dir.path(), "p.txt", b"#7a8a70 muted\n");
+    let v = json(&run(&["check", p.to_str().unwrap(), "--json"]));
+    let e = &v["entries"][0];
+    assert_eq!(e["in_gamut"], true);
+    assert!(e["delta_e00"].as_f64().unwrap() < 1.0, "{e}");
+}
+
+#[test]
+fn every_intent_and_paper_white_run() {
+    for intent in ["perceptual", "relative", "saturation", "absolute"] {
+        let o = run(&["check", &demo("density.txt"), "--intent", intent, "--json"]);
+        assert_eq!(o.status.code(), Some(0), "{intent}: {}", stderr(&o));
+        assert_eq!(json(&o)["intent"], intent);
+    }
+    let rel = json(&run(&["check", &demo("density.txt"), "--json"]));
+    let pw = json(&run(&["check", &demo("density.txt"), "--json", "--paper-white"]));
+    // The lightest step printed on the paper's own white is darker than the
+    // media-relative print: the paper is not a perfect diffuser.
+    let l_rel = rel["entries"][0]["proof_lab"][0].as_f64().unwrap();
+    let l_pw = pw["entries"][0]["proof_lab"][0].as_f64().unwrap();
+    assert!(l_pw < l_rel - 1.0, "paper white {l_pw} vs relative {l_rel}");
+}
+
+#[test]
+fn perceptual_on_the_builtin_press_says_it_has_no_own_table() {
+    let o = run(&["check", &demo("density.txt"), "--intent", "perceptual"]);
+    let out = stdout(&o);
+    assert!(out.contains("note") && out.contains("same data"), "{out}");
+    let o = run(&["check", &demo("density.txt")]);
+    assert!(
+        !stdout(&o).contains("same data"),
+        "relative colorimetric has its own table"
+    );
+}
+
+#[test]
+fn json_palettes_and_every_input_kind_work() {
+    let o = run(&["check", &demo("transport.json"), "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v = json(&o);
+    let e = v["entries"].as_array().unwrap();
+    assert_eq!(e.len(), 5);
+    // device-cmyk passes through unchanged.
+    let cmyk: Vec<f64> = e[4]["press_cmyk"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|x| x.as_f64().unwrap())
+        .collect();
+    assert_eq!(cmyk, vec![0.0, 60.0, 100.0, 20.0]);
+    assert_eq!(e[4]["in_gamut"], true);
+    // lab() input is reported as given.
+    assert_eq!(e[2]["screen_lab"][0].as_f64().unwrap(), 20.0);
+}
+
+#[test]
+fn delta_json_keys_and_values() {
+    let o = run(&["delta", "lab(50 2.6772 -79.7751)", "lab(50 0 -82.7485)", "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v = json(&o);
+    // Sharma, Wu & Dalal (2005), Table 1, pair 1: ΔE00 = 2.0425.
+    assert!((v["de00"].as_f64().unwrap() - 2.0425).abs() < 1e-4, "{v}");
+    for k in ["de76", "de94", "cmc"] {
+        assert!(v[k].as_f64().unwrap() > 0.0, "{k}");
+    }
+    let same = json(&run(&["delta", "#336699", "#336699", "--json"]));
+    assert_eq!(same["de00"].as_f64().unwrap(), 0.0);
+    let text = stdout(&run(&["delta", "#336699", "#3366aa"]));
+    assert!(text.contains("CIEDE2000"), "{text}");
+}
+
+#[test]
+fn inspect_reports_matrix_and_press_profiles() {
+    let v = json(&run(&["inspect", "srgb", "--json"]));
+    for k in [
+        "version",
+        "class",
+        "color_space",
+        "pcs",
+        "description",
+        "white_point_xyz",
+        "intents",
+        "max_ink",
+    ] {
+        assert!(v.get(k).is_some(), "key {k}");
+    }
+    assert_eq!(v["class"], "mntr");
+    assert_eq!(v["color_space"], "RGB");
+    assert!(v["max_ink"].is_null());
+    // IEC 61966-2-1: primaries 0.64/0.33, 0.30/0.60, 0.15/0.06, white D65 0.3127/0.3290.
+    let p = &v["primaries"];
+    for (k, x, y) in [
+        ("red", 0.64, 0.33),
+        ("green", 0.30, 0.60),
+        ("blue", 0.15, 0.06),
+        ("white", 0.3127, 0.3290),
+    ] {
+        assert!((p[k][0].as_f64().unwrap() - x).abs() < 5e-4, "{k} x");
+        assert!((p[k][1].as_f64().unwrap() - y).abs() < 5e-4, "{k} y");
+    }
+
+    let v = json(&run(&["inspect", "offset-coated", "--json"]));
+    assert_eq!(v["class"], "prtr");
+    assert_eq!(v["color_space"], "CMYK");
+    assert_eq!(v["pcs"], "Lab");
+    let ink = v["max_ink"].as_f64().unwrap();
+    assert!(ink > 280.0 && ink <= 330.5, "measured max ink {ink}");
+    let intents = v["intents"].as_array().unwrap();
+    assert_eq!(intents[1]["intent"], "relative");
+    assert_eq!(intents[1]["from_pcs"]["status"], "own");
+    assert_eq!(intents[0]["from_pcs"]["status"], "same-as");
+    let text = stdout(&run(&["inspect", "offset-coated"]));
+    assert!(text.contains("max ink") && text.contains("measured"), "{text}");
+}
+
+#[test]
+fn inspect_reads_a_profile_file() {
+    let dir = tempfile::tempdir().unwrap();
+    let p = temp_file(dir.path(), "wide.icc", &builtin_bytes("display-p3"));
+    let v = json(&run(&["inspect", p.to_str().unwrap(), "--json"]));
+    assert_eq!(v["builtin"], false);
+    // DCI-P3 red primary (SMPTE RP 431-2): 0.680, 0.320.
+    assert!((v["primaries"]["red"][0].as_f64().unwrap() - 0.680).abs() < 5e-4);
+}
+
+#[test]
+fn profiles_lists_the_builtins() {
+    let out = stdout(&run(&["profiles"]));
+    for n in ["srgb", "display-p3", "oprgb", "rec2020", "prophoto", "offset-coated"] {
+        assert!(out.contains(n), "{n}");
+    }
+    let v = json(&run(&["profiles", "--json"]));
+    assert_eq!(v.as_array().unwrap().len(), 6);
+}
+
+#[test]
+fn bad_profiles_fail_cleanly_naming_the_file() {
+    let dir = tempfile::tempdir().unwrap();
+    let srgb = builtin_bytes("srgb");
+    let truncated = temp_file(dir.path(), "cut.icc", &srgb[..300]);
+    let not_icc = temp_file(dir.path(), "notes.icc", b"this is not a profile at all, just some text that is long enough to pass the size check of the header reader, really it is, and it goes on for a while longer........");
+    let rgb_file = temp_file(dir.path(), "screen.icc", &srgb);
+    let lab_bytes = inkfit::icc::transform::lab_d50_profile().icc().unwrap();
+    let lab_file = temp_file(dir.path(), "lab.icc", &lab_bytes);
+    let palette = demo("density.txt");
+
+    let t = truncated.to_str().unwrap();
+    assert_error(&run(&["check", &palette, "--press", t]), &["cut.icc", "truncated"]);
+    assert_error(&run(&["inspect", t]), &["cut.icc", "truncated"]);
+    let n = not_icc.to_str().unwrap();
+    assert_error(
+        &run(&["check", &palette, "--screen", n]),
+        &["notes.icc", "not an ICC profile"],
+    );
+    let r = rgb_file.to_str().unwrap();
+    assert_error(
+        &run(&["check", &palette, "--press", r]),
+        &["screen.icc", "--press", "RGB"],
+    );
+    assert_error(
+        &run(&["check", &palette, "--screen", "offset-coated"]),
+        &["offset-coated", "--screen", "CMYK"],
+    );
+    let l = lab_file.to_str().unwrap();
+    assert_error(&run(&["check", &palette, "--screen", l]), &["lab.icc", "Lab"]);
+    assert_error(&run(&["check", &palette, "--press", l]), &["lab.icc", "Lab"]);
+    assert_error(
+        &run(&["check", &palette, "--press", "no-such-press"]),
+        &["no-such-press", "built-in"],
+    );
+}
+
+#[test]
+fn bad_palettes_fail_cleanly_naming_file_and_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let bad_line = temp_file(dir.path(), "bad.txt", b"#112233 fine\n# a comment\n#12345x broken\n");
+    assert_error(
+        &run(&["check", bad_line.to_str().unwrap()]),
+        &["bad.txt", "line 3", "#12345x"],
+    );
+    let empty = temp_file(dir.path(), "empty.txt", b"# only a comment\n\n");
+    assert_error(&run(&["check", empty.to_str().unwrap()]), &["empty.txt", "no colours"]);
+    let no_col = temp_file(dir.path(), "cols.csv", b"name,shade\nA,#112233\n");
+    assert_error(
+        &run(&["check", no_col.to_str().unwrap()]),
+        &["cols.csv", "line 1", "colour column"],
+    );
+    let bad_csv = temp_file(dir.path(), "bad.csv", b"name,color\nA,#112233\nB,rgb(1 2)\n");
+    assert_error(
+        &run(&["check", bad_csv.to_str().unwrap()]),
+        &["bad.csv", "line 3", "rgb(1 2)"],
+    );
+    let bad_json = temp_file(dir.path(), "bad.json", b"[{\"name\": \"A\", \"color\": \"#1122\"");
+    assert_error(&run(&["check", bad_json.to_str().unwrap()]), &["bad.json", "JSON"]);
+    let bad_json_color = temp_file(
+        dir.path(),
+        "c.json",
+        br##"[{"name":"A","color":"#112233"},{"name":"B","color":"lab(x)"}]"##,
+    );
+    assert_error(
+        &run(&["check", bad_json_color.to_str().unwrap()]),
+        &["c.json", "entry 2", "lab(x)"],
+    );
+    let missing = dir.path().join("missing.csv");
+    assert_error(
+        &run(&["check", missing.to_str().unwrap()]),
+        &["missing.csv", "cannot read"],
+    );
+    assert_error(&run(&["delta", "#12", "#123456"]), &["#12"]);
+}
+
+#[test]
+fn a_closed_pipe_is_not_an_error() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut text = String::new();
+    for i in 0..3000 {
+        text.push_str(&format!(
+            "#{:02x}{:02x}{:02x} c{i}\n",
+            i % 256,
+            (i * 7) % 256,
+            (i * 13) % 256
+        ));
+    }
+    let p = temp_file(dir.path(), "big.txt", text.as_bytes());
+    let mut child = bin()
+        .args(["check", p.to_str().unwrap()])
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    drop(child.stdout.take());
+    let o = child.wait_with_output().unwrap();
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stderr(&o).is_empty(), "{}", stderr(&o));
+}
+
+#[test]
+fn build_press_writes_the_committed_profile() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("rebuilt.icc");
+    let o = run(&["build-press", "offset-coated", "--out", out.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let rebuilt = std::fs::read(&out).unwrap();
+    let committed = std::fs::read(Path::new(env!("CARGO_MANIFEST_DIR")).join("profiles/offset-coated.icc")).unwrap();
+    assert_eq!(rebuilt.len(), committed.len());
+    assert!(
+        rebuilt == committed,
+        "the committed profile is out of date: run `inkfit build-press offset-coated --out profiles/offset-coated.icc`"
+    );
+}
