@@ -51,7 +51,10 @@ fn srgb_profile_matches_independent_library() {
         let reference = Lab::<D50, f64>::from_color(xyz50);
         let reference = LabD50::new(reference.l, reference.a, reference.b);
         let d = delta_e76(lab, reference);
-        assert!(d < 0.05, "rgb {rgb:?}: ours {lab:?}, palette {reference:?}, ΔE76 {d:.4}");
+        assert!(
+            d < 0.05,
+            "rgb {rgb:?}: ours {lab:?}, palette {reference:?}, ΔE76 {d:.4}"
+        );
     }
 }
 
@@ -61,7 +64,11 @@ fn srgb_profile_matches_independent_library() {
 #[test]
 fn srgb_white_and_mid_grey_follow_the_standard() {
     let lab = to_lab("srgb", &[[1.0, 1.0, 1.0], [0.5, 0.5, 0.5]]);
-    assert!((lab[0].l - 100.0).abs() < 0.01 && lab[0].a.abs() < 0.01 && lab[0].b.abs() < 0.01, "{:?}", lab[0]);
+    assert!(
+        (lab[0].l - 100.0).abs() < 0.01 && lab[0].a.abs() < 0.01 && lab[0].b.abs() < 0.01,
+        "{:?}",
+        lab[0]
+    );
     let y: f64 = ((0.5 + 0.055) / 1.055f64).powf(2.4);
     let l = 116.0 * y.cbrt() - 16.0;
     assert!((l - 53.389).abs() < 0.001);
@@ -83,9 +90,33 @@ fn un_adapt(xyz: Xyz, white: [f64; 3]) -> [f64; 3] {
 fn primaries_match_the_published_matrices() {
     let d65 = [0.3127 / 0.3290, 1.0, (1.0 - 0.3127 - 0.3290) / 0.3290];
     let cases: &[(&str, Option<[f64; 3]>, [[f64; 3]; 3])] = &[
-        ("srgb", Some(d65), [[0.4124, 0.2126, 0.0193], [0.3576, 0.7152, 0.1192], [0.1805, 0.0722, 0.9505]]),
-        ("oprgb", Some(d65), [[0.5767, 0.2973, 0.0270], [0.1856, 0.6274, 0.0707], [0.1882, 0.0753, 0.9911]]),
-        ("prophoto", None, [[0.7977, 0.2880, 0.0000], [0.1352, 0.7119, 0.0000], [0.0313, 0.0001, 0.8249]]),
+        (
+            "srgb",
+            Some(d65),
+            [
+                [0.4124, 0.2126, 0.0193],
+                [0.3576, 0.7152, 0.1192],
+                [0.1805, 0.0722, 0.9505],
+            ],
+        ),
+        (
+            "oprgb",
+            Some(d65),
+            [
+                [0.5767, 0.2973, 0.0270],
+                [0.1856, 0.6274, 0.0707],
+                [0.1882, 0.0753, 0.9911],
+            ],
+        ),
+        (
+            "prophoto",
+            None,
+            [
+                [0.7977, 0.2880, 0.0000],
+                [0.1352, 0.7119, 0.0000],
+                [0.0313, 0.0001, 0.8249],
+            ],
+        ),
     ];
     for (name, white, columns) in cases {
         let lab = to_lab(name, &[[1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]]);
@@ -116,4 +147,24 @@ fn rec2020_transfer_function_follows_bt2020() {
     let l_of = |y: f64| LabD50::from_xyz(Xyz::new(0.9642 * y, y, 0.8249 * y)).l;
     assert!((lab[0].l - l_of(y_mid)).abs() < 0.02, "{:?} vs {}", lab[0], l_of(y_mid));
     assert!((lab[1].l - l_of(y_low)).abs() < 0.02, "{:?} vs {}", lab[1], l_of(y_low));
+}
+
+/// The built-in display-p3 and rec2020 ICC profiles against the CSS Color 4
+/// definitions of `color(display-p3 …)` and `color(rec2020 …)` (its sample
+/// matrices and transfer functions), within 0.05 ΔE*ab.
+#[test]
+fn wide_gamut_profiles_match_css_color_4() {
+    use inkfit::color::spaces::{css_rgb_to_lab_d50, CssRgbSpace};
+    for (name, space) in [
+        ("display-p3", CssRgbSpace::DisplayP3),
+        ("rec2020", CssRgbSpace::Rec2020),
+        ("srgb", CssRgbSpace::Srgb),
+    ] {
+        let ours = to_lab(name, SAMPLES);
+        for (rgb, lab) in SAMPLES.iter().zip(ours) {
+            let css = css_rgb_to_lab_d50(space, *rgb);
+            let d = delta_e76(lab, css);
+            assert!(d < 0.05, "{name} {rgb:?}: ICC {lab:?}, CSS {css:?}, ΔE76 {d:.4}");
+        }
+    }
 }

@@ -1,5 +1,8 @@
 //! Colour-difference formulas over CIELAB (D50 in inkfit, though the formulas
-//! themselves do not depend on the white).
+//! themselves do not depend on the white): CIE76, CIE94 (graphic arts),
+//! CMC(l:c) and CIEDE2000. All inputs are CIELAB (L* 0..100, a*, b* unbounded)
+//! and all results are in ΔE units of the respective formula. Pure functions;
+//! non-finite inputs give non-finite results, never a panic.
 
 use super::LabD50;
 
@@ -15,9 +18,12 @@ pub fn delta_e76(a: LabD50, b: LabD50) -> f64 {
 /// implementation notes of Sharma, Wu and Dalal, Color Res. Appl. 30, 2005).
 ///
 /// Symmetric in its arguments. Hue means are taken as in Sharma et al.,
-/// eq. (14): where the hues differ by more than 180° the mean is shifted by
-/// 180°; at exactly 180° apart this implementation takes the branch
-/// `h̄' = (h1' + h2' + 360°)/2` when the sum is below 360°.
+/// eq. (14): when |h1' − h2'| ≤ 180° the mean is the plain mean; when the
+/// hues are more than 180° apart the mean is shifted by 180° (+360° to the sum
+/// when the sum is below 360°, −360° otherwise). At exactly 180° apart the
+/// plain mean is taken, as eq. (14) reads; the two candidate means differ by
+/// 180° there, so ΔE00 is discontinuous on that edge (Sharma et al., section
+/// "Mathematical observations", and their test pairs 13–15).
 pub fn delta_e00(lab1: LabD50, lab2: LabD50) -> f64 {
     let (l1, a1, b1) = (lab1.l, lab1.a, lab1.b);
     let (l2, a2, b2) = (lab2.l, lab2.a, lab2.b);
@@ -94,10 +100,79 @@ pub fn delta_e00(lab1: LabD50, lab2: LabD50) -> f64 {
     let th = dhp_big / sh;
     (tl * tl + tc * tc + th * th + rt * tc * th).sqrt()
 }
-// TEMPORARY lead shim, replaced at merge.
-pub fn delta_e94(a: LabD50, b: LabD50) -> f64 {
-    delta_e76(a, b)
+
+/// Chroma of (a, b), and the squared CIELAB hue difference ΔH*² between two
+/// colours, computed as 2·(C1·C2 − a1·a2 − b1·b2) (algebraically equal to
+/// Δa² + Δb² − ΔC², CIE 015:2018, 8.2.3, but free of the cancellation that
+/// makes that form slightly negative for nearly equal hues), floored at 0.
+fn chroma_and_hue_diff_sq(reference: LabD50, sample: LabD50) -> (f64, f64, f64) {
+    let c1 = reference.a.hypot(reference.b);
+    let c2 = sample.a.hypot(sample.b);
+    let dh2 = 2.0 * (c1 * c2 - reference.a * sample.a - reference.b * sample.b);
+    (c1, c2, dh2.max(0.0))
 }
-pub fn delta_e_cmc(a: LabD50, b: LabD50, _l: f64, _c: f64) -> f64 {
-    delta_e76(a, b)
+
+/// CIE94 colour difference (CIE 116-1995) with the graphic-arts parametric
+/// factors kL = kC = kH = 1 and K1 = 0.045, K2 = 0.015:
+///
+/// ΔE94 = √[(ΔL*/(kL·SL))² + (ΔC*/(kC·SC))² + (ΔH*/(kH·SH))²],
+/// SL = 1, SC = 1 + K1·C*, SH = 1 + K2·C*.
+///
+/// C* is the chroma of `reference` (the standard), as the graphic-arts use of
+/// the formula specifies (CIE 116-1995 allows the geometric mean of the two
+/// chromas when neither colour is a standard). The formula is therefore
+/// **not symmetric**: swapping reference and sample changes SC and SH, and
+/// hence the result, whenever the two chromas differ.
+pub fn delta_e94(reference: LabD50, sample: LabD50) -> f64 {
+    const K1: f64 = 0.045;
+    const K2: f64 = 0.015;
+    let (c1, c2, dh2) = chroma_and_hue_diff_sq(reference, sample);
+    let dl = reference.l - sample.l;
+    let dc = c1 - c2;
+    let sc = 1.0 + K1 * c1;
+    let sh = 1.0 + K2 * c1;
+    let tc = dc / sc;
+    (dl * dl + tc * tc + dh2 / (sh * sh)).sqrt()
+}
+
+/// CMC(l:c) colour difference (Clarke, McDonald and Rigg 1984; BS 6923:1988;
+/// ISO 105-J03):
+///
+/// ΔE = √[(ΔL*/(l·SL))² + (ΔC*/(c·SC))² + (ΔH*/SH)²], with, from the
+/// reference (standard) colour L1, C1, h1 (h1 in degrees, 0..360):
+/// - SL = 0.511 if L1 < 16, else 0.040975·L1 / (1 + 0.01765·L1);
+/// - SC = 0.0638·C1 / (1 + 0.0131·C1) + 0.638;
+/// - F = √(C1⁴ / (C1⁴ + 1900)), SH = SC·(F·T + 1 − F);
+/// - T = 0.56 + |0.2·cos(h1 + 168°)| if 164° ≤ h1 ≤ 345°, else
+///   0.36 + |0.4·cos(h1 + 35°)|.
+///
+/// `l` and `c` are the lightness and chroma weights (inkfit uses 2:1 for
+/// acceptability; 1:1 is the perceptibility form). Like CIE94 the formula is
+/// not symmetric: the weights come from `reference`.
+pub fn delta_e_cmc(reference: LabD50, sample: LabD50, l: f64, c: f64) -> f64 {
+    let (c1, c2, dh2) = chroma_and_hue_diff_sq(reference, sample);
+    let l1 = reference.l;
+    let dl = l1 - sample.l;
+    let dc = c1 - c2;
+    let sl = if l1 < 16.0 {
+        0.511
+    } else {
+        0.040975 * l1 / (1.0 + 0.01765 * l1)
+    };
+    let sc = 0.0638 * c1 / (1.0 + 0.0131 * c1) + 0.638;
+    let mut h1 = reference.b.atan2(reference.a).to_degrees();
+    if h1 < 0.0 {
+        h1 += 360.0;
+    }
+    let t = if (164.0..=345.0).contains(&h1) {
+        0.56 + (0.2 * (h1 + 168.0).to_radians().cos()).abs()
+    } else {
+        0.36 + (0.4 * (h1 + 35.0).to_radians().cos()).abs()
+    };
+    let c1_4 = c1 * c1 * c1 * c1;
+    let f = (c1_4 / (c1_4 + 1900.0)).sqrt();
+    let sh = sc * (f * t + 1.0 - f);
+    let tl = dl / (l * sl);
+    let tc = dc / (c * sc);
+    (tl * tl + tc * tc + dh2 / (sh * sh)).sqrt()
 }
