@@ -89,7 +89,8 @@ fn un_adapt(xyz: Xyz, white: [f64; 3]) -> [f64; 3] {
 #[test]
 fn primaries_match_the_published_matrices() {
     let d65 = [0.3127 / 0.3290, 1.0, (1.0 - 0.3127 - 0.3290) / 0.3290];
-    let cases: &[(&str, Option<[f64; 3]>, [[f64; 3]; 3])] = &[
+    type Case = (&'static str, Option<[f64; 3]>, [[f64; 3]; 3]);
+    let cases: &[Case] = &[
         (
             "srgb",
             Some(d65),
