@@ -274,17 +274,22 @@ impl IccProfile {
         let own = intent.table_index();
         match entry(own) {
             Some(e) => {
-                for other in (0..3u8).filter(|&o| o != own) {
-                    if let Some(o) = entry(other) {
-                        if same_data(&self.bytes, e, o) && other < own {
-                            return TableUse::SameAs {
-                                tag: e.sig,
-                                other: o.sig,
-                            };
-                        }
-                    }
+                // Among tags holding the same data, the one first in the tag
+                // table counts as the table; the others point to it.
+                let first = self
+                    .header
+                    .tags
+                    .iter()
+                    .copied()
+                    .filter(|t| t.sig.0[..3] == prefix[..] && matches!(t.sig.0[3], b'0'..=b'2'))
+                    .find(|&t| same_data(&self.bytes, e, t));
+                match first {
+                    Some(f) if f.sig != e.sig => TableUse::SameAs {
+                        tag: e.sig,
+                        other: f.sig,
+                    },
+                    _ => TableUse::Own(e.sig),
                 }
-                TableUse::Own(e.sig)
             }
             None => match entry(0) {
                 Some(e) => TableUse::FallsBackTo(e.sig),
