@@ -73,7 +73,7 @@ pub fn info(name: &str) -> Option<&'static BuiltinInfo> {
 pub fn bytes(name: &str) -> Option<Result<Vec<u8>, IccError>> {
     let info = info(name)?;
     Some(match info.role {
-        Role::Press => crate::press::builtin_icc(name)
+        Role::Press => crate::press::builtin_press_icc(name)
             .map(<[u8]>::to_vec)
             .ok_or_else(|| IccError::Builtin {
                 name: name.to_string(),
@@ -178,8 +178,8 @@ fn screen(info: &BuiltinInfo) -> Result<Vec<u8>, String> {
 }
 
 /// The creation date written into every profile inkfit makes, so that the
-/// same definition always gives the same bytes: 2026-12-01 00:00:00 UTC.
-pub const PROFILE_DATE: [u16; 6] = [2026, 12, 1, 0, 0, 0];
+/// same definition always gives the same bytes.
+pub use crate::press::icc_writer::FIXED_DATE as PROFILE_DATE;
 
 /// Overwrites the header's dateTimeNumber (ICC.1:2010, 7.2.1, bytes 24..36)
 /// with [`PROFILE_DATE`].

@@ -107,8 +107,9 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
     writeln!(w)?;
     writeln!(
         w,
-        "{} colours: {} shift beyond ΔE00 {}, {} outside the press gamut; largest ΔE00 {} ({}), mean {}",
+        "{} colour{}: {} shift beyond ΔE00 {}, {} outside the press gamut; largest ΔE00 {} ({}), mean {}",
         s.count,
+        if s.count == 1 { "" } else { "s" },
         s.beyond_tolerance,
         f(r.tolerance, 1),
         s.out_of_gamut,

@@ -239,12 +239,14 @@ fn split_color(line: &str) -> Result<(&str, &str), String> {
     }
 }
 
-/// True when `#` starts a hex colour (`#rgb`, `#rgba`, `#rrggbb`, `#rrggbbaa`)
-/// rather than a comment.
+/// True when `#` starts a colour rather than a comment: a colour's `#` is
+/// followed at once by a letter or digit (`#2f6b3a`, and typos such as
+/// `#12345x`, which then get a parse error); a comment's by a space, another
+/// `#`, punctuation or the end of the line.
 fn is_hex_color(s: &str) -> bool {
-    let Some(rest) = s.strip_prefix('#') else { return false };
-    let hex: String = rest.chars().take_while(|c| !c.is_whitespace()).collect();
-    matches!(hex.len(), 3 | 4 | 6 | 8) && hex.chars().all(|c| c.is_ascii_hexdigit())
+    s.strip_prefix('#')
+        .and_then(|rest| rest.chars().next())
+        .is_some_and(|c| c.is_ascii_alphanumeric())
 }
 
 fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
@@ -283,4 +285,63 @@ fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
         });
     }
     Ok(entries)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn csv_finds_columns_by_header_and_reads_quoted_fields() {
+        let p = Palette::parse(
+            "t.csv",
+            "note,Colour,Name\nx,\"rgb(10, 20, 30)\",Deep\ny,#ffffff,\n",
+            Format::Csv,
+        )
+        .unwrap();
+        assert_eq!(p.entries.len(), 2);
+        assert_eq!(p.entries[0].name, "Deep");
+        assert_eq!(p.entries[0].input, "rgb(10, 20, 30)");
+        assert_eq!(p.entries[0].line, 2);
+        assert_eq!(
+            p.entries[1].name, "#ffffff",
+            "a missing name falls back to the colour text"
+        );
+    }
+
+    #[test]
+    fn text_lines_take_functions_names_and_comments() {
+        let text = "# header comment\n\nlab(50 10 -20) Lake shore  # trailing\n#abc\n  oklch(0.5 0.1 30)\n";
+        let p = Palette::parse("t.txt", text, Format::Text).unwrap();
+        let names: Vec<&str> = p.entries.iter().map(|e| e.name.as_str()).collect();
+        assert_eq!(names, ["Lake shore", "#abc", "oklch(0.5 0.1 30)"]);
+        assert_eq!(p.entries[0].line, 3);
+        assert_eq!(p.entries[2].line, 5);
+    }
+
+    #[test]
+    fn text_reports_the_line_of_a_bad_colour() {
+        let err = Palette::parse("t.txt", "#112233\n#12345x typo\n", Format::Text).unwrap_err();
+        let msg = err.to_string();
+        assert!(
+            msg.contains("t.txt") && msg.contains("line 2") && msg.contains("#12345x"),
+            "{msg}"
+        );
+    }
+
+    #[test]
+    fn json_needs_an_array_of_objects() {
+        let p = Palette::parse("t.json", r#"[{"name": null, "color": "lab(40 0 0)"}]"#, Format::Json).unwrap();
+        assert_eq!(p.entries[0].name, "lab(40 0 0)");
+        for bad in [r##"{"color": "#fff"}"##, r##"["#fff"]"##, r##"[{"name": "A"}]"##] {
+            assert!(matches!(
+                Palette::parse("t.json", bad, Format::Json),
+                Err(PaletteError::Format { .. })
+            ));
+        }
+        assert!(matches!(
+            Palette::parse("t.json", "[]", Format::Json),
+            Err(PaletteError::Empty { .. })
+        ));
+    }
 }
