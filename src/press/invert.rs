@@ -564,7 +564,7 @@ pub fn invert_with(cond: &PrintCondition, table: &StartTable, target: LabD50) ->
     let mut best: Option<([f64; 4], f64)> = None;
     for start in table.best(target.to_array(), k_aim, gcr.weight, 3) {
         let (x, c) = prob.solve(start, 60);
-        if best.map_or(true, |(_, bc)| c < bc) {
+        if best.is_none_or(|(_, bc)| c < bc) {
             best = Some((x, c));
         }
     }
