@@ -13,6 +13,7 @@
 
 pub mod cli;
 pub mod color;
+pub mod gamut;
 pub mod icc;
 pub mod io;
 pub mod press;

@@ -308,6 +308,16 @@ fn bad_profiles_fail_cleanly_naming_the_file() {
         &run(&["check", &palette, "--screen", "offset-coated"]),
         &["offset-coated", "--screen", "CMYK"],
     );
+    let gamma = lcms2::ToneCurve::new(2.2);
+    let d65 = lcms2::CIExyY {
+        x: 0.3127,
+        y: 0.3290,
+        Y: 1.0,
+    };
+    let grey_bytes = lcms2::Profile::new_gray(&d65, &gamma).unwrap().icc().unwrap();
+    let grey_file = temp_file(dir.path(), "grey.icc", &grey_bytes);
+    let g = grey_file.to_str().unwrap();
+    assert_error(&run(&["check", &palette, "--screen", g]), &["grey.icc", "grey"]);
     let l = lab_file.to_str().unwrap();
     assert_error(&run(&["check", &palette, "--screen", l]), &["lab.icc", "Lab"]);
     assert_error(&run(&["check", &palette, "--press", l]), &["lab.icc", "Lab"]);

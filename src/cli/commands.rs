@@ -9,7 +9,7 @@ use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
 use crate::icc::transform::{resolve_lab, PressMapping};
 use crate::icc::{builtin, inspect, IccProfile};
 use crate::report::{self, DeltaColor, DeltaReport};
-use crate::swatch::check::{check, CheckOptions};
+use crate::swatch::check::{check_against, CheckOptions};
 use crate::swatch::Palette;
 
 /// How a successful run ended.
@@ -36,6 +36,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<Outcome, Error> {
         Command::Delta(a) => run_delta(a, out),
         Command::Inspect(a) => run_inspect(a, out),
         Command::Profiles(a) => run_profiles(a, out),
+        Command::Gamut(a) => super::gamut::run_gamut(a, out),
         Command::BuildPress(a) => run_build_press(a),
     }
 }
@@ -56,7 +57,11 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         },
         tolerance: a.tolerance,
     };
-    let r = check(&palette, &screen, &press, opts)?;
+    let press_gamut = match a.gamut_test {
+        super::GamutTestArg::Boundary => Some(crate::gamut::Gamut::of_profile(&press, Default::default())?),
+        super::GamutTestArg::RoundTrip => None,
+    };
+    let r = check_against(&palette, &screen, &press, opts, press_gamut.as_ref())?;
     if a.json {
         report::write_json(out, &r)?;
     } else {

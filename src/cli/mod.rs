@@ -2,6 +2,7 @@
 //! arguments before any work starts, and one small `run` per subcommand.
 
 mod commands;
+mod gamut;
 
 use std::path::PathBuf;
 
@@ -32,6 +33,8 @@ pub enum Command {
     Inspect(InspectArgs),
     /// List the built-in profiles.
     Profiles(ProfilesArgs),
+    /// Gamut of each profile in CIELAB: volume, lightness range, chroma per hue, coverage of each pair, meshes.
+    Gamut(GamutArgs),
     /// Maintainers: rebuild a built-in press profile from its printing model.
     #[command(hide = true)]
     BuildPress(BuildPressArgs),
@@ -91,6 +94,15 @@ pub struct CheckArgs {
     /// Exit with code 1 when any colour is beyond the tolerance.
     #[arg(long)]
     pub strict: bool,
+    /// How "in gamut" is decided: inside the press gamut's boundary, or by a CIELAB → press → CIELAB round trip.
+    #[arg(long, value_enum, default_value = "boundary")]
+    pub gamut_test: GamutTestArg,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum GamutTestArg {
+    Boundary,
+    RoundTrip,
 }
 
 #[derive(Args, Debug)]
@@ -120,6 +132,22 @@ pub struct ProfilesArgs {
     /// Write JSON instead of a table.
     #[arg(long)]
     pub json: bool,
+}
+
+#[derive(Args, Debug)]
+pub struct GamutArgs {
+    /// Profiles (built-in names or ICC files): RGB screens or CMYK presses.
+    #[arg(required = true, value_name = "PROFILE")]
+    pub profiles: Vec<String>,
+    /// Write JSON instead of tables.
+    #[arg(long)]
+    pub json: bool,
+    /// Write each boundary as a triangle mesh: .ply, .gltf or .glb (several profiles: FILE-1.ext, FILE-2.ext, …).
+    #[arg(long, value_name = "FILE")]
+    pub mesh: Option<PathBuf>,
+    /// Total-ink limit for CMYK profiles in percent (default: measured from each profile's CIELAB → CMYK table).
+    #[arg(long, value_name = "PERCENT")]
+    pub ink_limit: Option<f64>,
 }
 
 #[derive(Args, Debug)]

@@ -42,8 +42,12 @@ pub struct CheckedEntry {
     pub proof_lab: [f64; 3],
     pub delta_e00: f64,
     pub in_gamut: bool,
-    /// CIEDE2000 of the colorimetric round trip behind `in_gamut`.
+    /// CIEDE2000 of the colorimetric round trip (behind `in_gamut` with the
+    /// round-trip test).
     pub round_trip_delta_e00: f64,
+    /// CIEDE2000 from the screen colour to the nearest colour of the press
+    /// gamut (0 inside); null with the round-trip test.
+    pub outside_by: Option<f64>,
     pub within_tolerance: bool,
 }
 
@@ -88,12 +92,25 @@ fn round_all<const N: usize>(v: [f64; N], places: i32) -> [f64; N] {
     v.map(|x| round(x, places))
 }
 
-/// Runs the check of `palette` from `screen` onto `press`.
+/// Runs the check of `palette` from `screen` onto `press` with the
+/// round-trip gamut test.
 pub fn check(
     palette: &Palette,
     screen: &IccProfile,
     press: &IccProfile,
     opts: CheckOptions,
+) -> Result<CheckReport, IccError> {
+    check_against(palette, screen, press, opts, None)
+}
+
+/// Runs the check; with `press_gamut` (the press profile's gamut) `in_gamut`
+/// and `outside_by` come from its boundary, without it from the round trip.
+pub fn check_against(
+    palette: &Palette,
+    screen: &IccProfile,
+    press: &IccProfile,
+    opts: CheckOptions,
+    press_gamut: Option<&crate::gamut::Gamut>,
 ) -> Result<CheckReport, IccError> {
     let t = PressTransforms::new(screen, press, opts.mapping)?;
     let n = palette.entries.len();
@@ -143,6 +160,14 @@ pub fn check(
             ColorInput::DeviceCmyk(_) => 0.0,
             _ => delta_e00(screen_lab[i], round_trip[i]),
         };
+        let (in_gamut, outside_by) = match (press_gamut, e.color) {
+            (Some(_), ColorInput::DeviceCmyk(_)) => (true, Some(0.0)),
+            (Some(g), _) => {
+                let (inside, d) = g.judge(screen_lab[i]);
+                (inside, Some(round(d, 2)))
+            }
+            (None, _) => (rt <= ROUND_TRIP_THRESHOLD, None),
+        };
         entries.push(CheckedEntry {
             name: e.name.clone(),
             input: e.input.clone(),
@@ -152,8 +177,9 @@ pub fn check(
             ink_total: round(cmyk[i].iter().sum(), 1),
             proof_lab: round_all(printed[i].to_array(), 2),
             delta_e00: round(de, 2),
-            in_gamut: rt <= ROUND_TRIP_THRESHOLD,
+            in_gamut,
             round_trip_delta_e00: round(rt, 2),
+            outside_by,
             within_tolerance: de <= opts.tolerance,
         });
     }
@@ -166,9 +192,18 @@ pub fn check(
         bpc: opts.mapping.bpc,
         paper_white: opts.mapping.paper_white,
         tolerance: opts.tolerance,
-        gamut_test: format!(
-            "round trip CIELAB → press → CIELAB (relative colorimetric, no BPC) within ΔE00 {ROUND_TRIP_THRESHOLD:.1}"
-        ),
+        gamut_test: match press_gamut {
+            Some(g) => format!(
+                "press gamut boundary in CIELAB{}: inside, or within ΔE00 {:.1} of it",
+                g.ink_limit
+                    .map(|l| format!(" (total ink {:.1} %)", l.percent))
+                    .unwrap_or_default(),
+                crate::gamut::EDGE_TOLERANCE
+            ),
+            None => format!(
+                "round trip CIELAB → press → CIELAB (relative colorimetric, no BPC) within ΔE00 {ROUND_TRIP_THRESHOLD:.1}"
+            ),
+        },
         notes: notes(screen, press, opts.mapping),
         entries,
         summary,

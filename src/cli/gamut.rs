@@ -1,0 +1,84 @@
+//! `inkfit gamut`: load every profile first, then compute each gamut, the
+//! coverage of every pair and any boundary meshes, then render.
+
+use std::io::Write;
+use std::path::{Path, PathBuf};
+
+use super::commands::{Error, Outcome};
+use super::GamutArgs;
+use crate::gamut::export::{write_mesh, MeshFormat};
+use crate::gamut::report::{self, GamutReport, MeshFile};
+use crate::gamut::{coverage_all, Gamut, GamutError, GamutOptions};
+use crate::icc::IccProfile;
+
+/// Voxel edge of the shared coverage grid, CIELAB units.
+const COVERAGE_VOXEL: f64 = 1.0;
+
+/// Where the mesh of profile `k` (0-based) of `count` goes: the path itself
+/// for one profile, else `<stem>-<k+1>.<ext>` beside it.
+fn mesh_path(base: &Path, k: usize, count: usize) -> PathBuf {
+    if count == 1 {
+        return base.to_path_buf();
+    }
+    let stem = base
+        .file_stem()
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    let ext = base
+        .extension()
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    base.with_file_name(format!("{stem}-{}.{ext}", k + 1))
+}
+
+pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
+    // The plan: options and every profile checked before any work.
+    if let Some(v) = a.ink_limit {
+        if !(v.is_finite() && (1.0..=400.0).contains(&v)) {
+            return Err(GamutError::InkLimit { value: v }.into());
+        }
+    }
+    let format = match &a.mesh {
+        Some(p) => Some(
+            MeshFormat::from_path(p)
+                .ok_or_else(|| format!("--mesh '{}': give a file ending in .ply, .gltf or .glb", p.display()))?,
+        ),
+        None => None,
+    };
+    let profiles = a
+        .profiles
+        .iter()
+        .map(|s| IccProfile::load(s))
+        .collect::<Result<Vec<_>, _>>()?;
+    let opts = GamutOptions {
+        ink_limit: a.ink_limit,
+        ..GamutOptions::default()
+    };
+    let gamuts = profiles
+        .iter()
+        .map(|p| Gamut::of_profile(p, opts))
+        .collect::<Result<Vec<_>, _>>()?;
+    let coverage = coverage_all(&gamuts, COVERAGE_VOXEL);
+    let mut meshes = Vec::new();
+    if let (Some(base), Some(format)) = (&a.mesh, format) {
+        for (k, g) in gamuts.iter().enumerate() {
+            let path = mesh_path(base, k, gamuts.len());
+            let m = g.boundary();
+            crate::io::write_atomic(&path, |w| write_mesh(w, m, &g.name, format))
+                .map_err(|e| format!("cannot write '{}': {e}", path.display()))?;
+            meshes.push(MeshFile {
+                profile: g.name.clone(),
+                file: path.display().to_string(),
+                vertices: m.vertices.len(),
+                triangles: m.triangles.len(),
+            });
+        }
+    }
+    let r = GamutReport::new(&gamuts, coverage, meshes);
+    if a.json {
+        crate::report::write_json(out, &r)?;
+    } else {
+        report::render(out, &r)?;
+    }
+    Ok(Outcome::Done)
+}

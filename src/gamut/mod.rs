@@ -1,0 +1,571 @@
+//! Gamut boundaries in CIELAB D50 (relative colorimetric): volume, lightness
+//! range, largest chroma per hue sector, coverage between two gamuts, the
+//! inside test and the distance (CIEDE2000) to the nearest printable colour.
+//!
+//! Two methods, one per kind of device:
+//!
+//! * **RGB** (matrix/TRC or table): the device → CIELAB map is one-to-one, so
+//!   the gamut is the solid bounded by the image of the RGB cube's six faces.
+//!   The faces are sampled through lcms2 on an n × n grid each, and the
+//!   enclosed volume follows from the divergence theorem (Σ p0·(p1×p2)/6).
+//!   The faces are smooth, so the error falls as 1/n²: n = 64 is within
+//!   0.1 % (see `examples/gamut_convergence.rs`).
+//! * **CMYK** (tables, four inks onto three dimensions): the map is
+//!   many-to-one and the images of the 4-cube's faces overlap, so no signed
+//!   surface integral gives the gamut. Every CIELAB colour the press can make
+//!   is made by some ink combination on the boundary of the ink domain (the
+//!   set of colours made by one CIELAB value is a curve in the domain, and a
+//!   curve in a bounded domain reaches its boundary). The boundary consists
+//!   of the eight 3-faces C, M, Y or K = 0 or 100 % cut by the total-ink
+//!   limit, plus the 3-face where the total equals the limit. Each 3-face is
+//!   sampled on a grid through lcms2, each grid cell is split into six
+//!   tetrahedra, and every tetrahedron's image is filled into a voxel grid
+//!   (voxel centre inside → set). The union of those images is the gamut;
+//!   enclosed cavities are filled from outside, the boundary mesh is the
+//!   voxel solid's isosurface (marching tetrahedra), and the volume is the
+//!   count of set voxels times the voxel volume.
+//!
+//! Coverage of A by B rasterises both solids into one shared voxel grid and
+//! counts: share = |A ∩ B| / |A|.
+
+pub mod export;
+pub mod grid;
+pub mod mesh;
+pub mod report;
+
+use lcms2::{Flags, GlobalContext, PixelFormat, Transform};
+use rayon::prelude::*;
+use serde::Serialize;
+
+use crate::color::delta::delta_e00;
+use crate::color::LabD50;
+use crate::icc::header::{self, Signature};
+use crate::icc::transform::lab_d50_profile;
+use crate::icc::{inspect, IccProfile, RenderingIntent};
+use grid::{Grid, Solid};
+use mesh::{Locator, Mesh};
+
+/// Why a profile's gamut cannot be computed. Each names the profile.
+#[derive(Debug, thiserror::Error)]
+pub enum GamutError {
+    #[error("profile '{name}' is {found}; a gamut needs an RGB or CMYK device profile (not a link, abstract or named-colour profile)")]
+    Unsupported { name: String, found: String },
+    #[error("profile '{name}': lcms2 cannot build its device → CIELAB transform, so its tables cannot be sampled")]
+    Transform { name: String },
+    #[error("profile '{name}': its device → CIELAB table gives unusable values ({detail})")]
+    Sampling { name: String, detail: String },
+    #[error("profile '{name}': no CIELAB → CMYK table to measure the total-ink limit from; give --ink-limit")]
+    NoInkLimit { name: String },
+    #[error("the total-ink limit must be between 1 and 400 %, not {value}")]
+    InkLimit { value: f64 },
+}
+
+/// The kind of device a gamut belongs to.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum DeviceKind {
+    Rgb,
+    Cmyk,
+}
+
+/// The total-ink limit a CMYK gamut was computed with.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+pub struct InkLimit {
+    /// Percent, C + M + Y + K.
+    pub percent: f64,
+    /// True when measured from the profile's own CIELAB → CMYK table, false
+    /// when given by the caller.
+    pub measured: bool,
+}
+
+/// Sampling densities. The defaults meet the accuracy the tests ask for.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct GamutOptions {
+    /// CMYK total-ink limit in percent; `None` measures it from the profile.
+    pub ink_limit: Option<f64>,
+    /// RGB: grid steps per cube edge on each face.
+    pub rgb_steps: usize,
+    /// CMYK: grid steps per edge of each 3-face of the ink domain.
+    pub cmyk_steps: usize,
+    /// Voxel edge of the solid, CIELAB units.
+    pub voxel: f64,
+}
+
+impl Default for GamutOptions {
+    fn default() -> Self {
+        GamutOptions {
+            ink_limit: None,
+            rgb_steps: 64,
+            cmyk_steps: 16,
+            voxel: 1.0,
+        }
+    }
+}
+
+/// The largest chroma within one hue sector.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+pub struct HueSector {
+    /// Hue angle h_ab in degrees, from (inclusive) …
+    pub hue_from: f64,
+    /// … to (exclusive).
+    pub hue_to: f64,
+    /// Largest C*ab among the sampled device colours in the sector.
+    pub max_chroma: f64,
+    /// L* of that colour.
+    pub l_at_max: f64,
+}
+
+/// Width of a hue sector, degrees; 12 sectors of 30°.
+pub const SECTOR_DEGREES: f64 = 30.0;
+
+/// How the shape is held so that it can be rasterised into any grid.
+#[derive(Clone, Debug)]
+enum Shape {
+    /// A closed surface (RGB).
+    Surface(Mesh),
+    /// Tetrahedra of the ink domain's boundary 3-faces, CIELAB corners (CMYK).
+    Cells(Vec<[[f64; 3]; 4]>),
+}
+
+/// A device's gamut in CIELAB D50.
+#[derive(Clone, Debug)]
+pub struct Gamut {
+    pub name: String,
+    pub kind: DeviceKind,
+    pub ink_limit: Option<InkLimit>,
+    /// Cubic CIELAB units (ΔE*ab³).
+    pub volume: f64,
+    pub l_min: f64,
+    pub l_max: f64,
+    pub hue_sectors: Vec<HueSector>,
+    shape: Shape,
+    solid: Solid,
+    locator: Locator,
+    lo: [f64; 3],
+    hi: [f64; 3],
+}
+
+type Px3 = [f64; 3];
+type Px4 = [f64; 4];
+
+fn sampling_err(name: &str, detail: impl Into<String>) -> GamutError {
+    GamutError::Sampling {
+        name: name.to_string(),
+        detail: detail.into(),
+    }
+}
+
+/// Device → CIELAB D50, relative colorimetric, shareable across threads.
+fn to_lab_transform<T: Copy + lcms2::Pod>(
+    p: &IccProfile,
+    format: PixelFormat,
+) -> Result<Transform<T, Px3, GlobalContext, lcms2::DisallowCache>, GamutError> {
+    let lab = lab_d50_profile();
+    Transform::new_flags_context(
+        GlobalContext::new(),
+        &p.lcms,
+        format,
+        &lab,
+        PixelFormat::Lab_DBL,
+        RenderingIntent::Relative.to_lcms(),
+        Flags::NO_CACHE,
+    )
+    .map_err(|_| GamutError::Transform { name: p.name.clone() })
+}
+
+fn run<T: Copy + lcms2::Pod + Sync>(
+    t: &Transform<T, Px3, GlobalContext, lcms2::DisallowCache>,
+    input: &[T],
+) -> Vec<Px3> {
+    let mut out = vec![[0.0; 3]; input.len()];
+    out.par_chunks_mut(4096)
+        .zip(input.par_chunks(4096))
+        .for_each(|(o, i)| t.transform_pixels(i, o));
+    out
+}
+
+fn check_finite(name: &str, lab: &[Px3]) -> Result<(), GamutError> {
+    if lab.iter().flatten().all(|v| v.is_finite()) {
+        Ok(())
+    } else {
+        Err(sampling_err(name, "not-a-number in CIELAB"))
+    }
+}
+
+impl Gamut {
+    /// Computes the gamut of an RGB or CMYK profile.
+    pub fn of_profile(p: &IccProfile, opts: GamutOptions) -> Result<Gamut, GamutError> {
+        let h = &p.header;
+        let unsupported = || GamutError::Unsupported {
+            name: p.name.clone(),
+            found: p.kind_phrase(),
+        };
+        let bad_class: [Signature; 3] = [header::CLASS_LINK, header::CLASS_ABSTRACT, header::CLASS_NAMED];
+        if bad_class.contains(&h.class) {
+            return Err(unsupported());
+        }
+        if !(opts.voxel.is_finite() && opts.voxel > 0.0) {
+            return Err(sampling_err(
+                &p.name,
+                format!("voxel size {} is not positive", opts.voxel),
+            ));
+        }
+        if h.color_space == header::SPACE_RGB {
+            Self::rgb(p, opts)
+        } else if h.color_space == header::SPACE_CMYK {
+            Self::cmyk(p, opts)
+        } else {
+            Err(unsupported())
+        }
+    }
+
+    fn rgb(p: &IccProfile, opts: GamutOptions) -> Result<Gamut, GamutError> {
+        let t = to_lab_transform::<Px3>(p, PixelFormat::RGB_DBL)?;
+        let (device, triangles) = mesh::cube_surface(opts.rgb_steps.max(2));
+        let lab = run(&t, &device);
+        check_finite(&p.name, &lab)?;
+        let mut surface = Mesh {
+            vertices: lab,
+            triangles,
+        };
+        let signed = surface.signed_volume();
+        if signed < 0.0 {
+            surface.flip();
+        }
+        let volume = signed.abs();
+        if volume.is_nan() || volume <= 1.0 {
+            return Err(sampling_err(&p.name, "the RGB cube maps to (almost) no volume"));
+        }
+        let (lo, hi) = surface.bounds().ok_or_else(|| sampling_err(&p.name, "no samples"))?;
+        let shape = Shape::Surface(surface.clone());
+        let solid = rasterise(&shape, Grid::covering(lo, hi, opts.voxel));
+        Ok(Gamut {
+            name: p.name.clone(),
+            kind: DeviceKind::Rgb,
+            ink_limit: None,
+            volume,
+            l_min: lo[0],
+            l_max: hi[0],
+            hue_sectors: hue_sectors(&surface.vertices),
+            shape,
+            solid,
+            locator: Locator::new(surface),
+            lo,
+            hi,
+        })
+    }
+
+    fn cmyk(p: &IccProfile, opts: GamutOptions) -> Result<Gamut, GamutError> {
+        let limit = match opts.ink_limit {
+            Some(v) if (1.0..=400.0).contains(&v) => InkLimit {
+                percent: v,
+                measured: false,
+            },
+            Some(value) => return Err(GamutError::InkLimit { value }),
+            None => InkLimit {
+                percent: inspect::inspect(p)
+                    .max_ink
+                    .filter(|v| *v >= 1.0)
+                    .ok_or_else(|| GamutError::NoInkLimit { name: p.name.clone() })?
+                    .min(400.0),
+                measured: true,
+            },
+        };
+        let t = to_lab_transform::<Px4>(p, PixelFormat::CMYK_DBL)?;
+        let n = opts.cmyk_steps.max(2);
+        let faces = ink_domain_faces(limit.percent, n);
+        let device: Vec<Px4> = faces.iter().flatten().copied().collect();
+        let lab = run(&t, &device);
+        check_finite(&p.name, &lab)?;
+        let m = n + 1;
+        let mut tets = Vec::with_capacity(faces.len() * n * n * n * 6);
+        for f in 0..faces.len() {
+            let base = f * m * m * m;
+            let at = |i: usize, j: usize, k: usize| lab[base + (i * m + j) * m + k];
+            for i in 0..n {
+                for j in 0..n {
+                    for k in 0..n {
+                        let c = |b: usize| at(i + (b & 1), j + ((b >> 1) & 1), k + ((b >> 2) & 1));
+                        // Six tetrahedra around the cell diagonal 0 → 7.
+                        for path in [[1, 3], [1, 5], [2, 3], [2, 6], [4, 5], [4, 6]] {
+                            tets.push([c(0), c(path[0]), c(path[1]), c(7)]);
+                        }
+                    }
+                }
+            }
+        }
+        let (lo, hi) = mesh::bounds(&lab).ok_or_else(|| sampling_err(&p.name, "no samples"))?;
+        let shape = Shape::Cells(tets);
+        let solid = rasterise(&shape, Grid::covering(lo, hi, opts.voxel));
+        let volume = solid.volume();
+        if volume.is_nan() || volume <= 1.0 {
+            return Err(sampling_err(&p.name, "the ink domain maps to (almost) no volume"));
+        }
+        let surface = mesh::isosurface(&solid);
+        Ok(Gamut {
+            name: p.name.clone(),
+            kind: DeviceKind::Cmyk,
+            ink_limit: Some(limit),
+            volume,
+            l_min: lo[0],
+            l_max: hi[0],
+            hue_sectors: hue_sectors(&lab),
+            shape,
+            solid,
+            locator: Locator::new(surface),
+            lo,
+            hi,
+        })
+    }
+
+    /// The closed boundary mesh (CIELAB D50), wound outward.
+    pub fn boundary(&self) -> &Mesh {
+        self.locator.mesh()
+    }
+
+    /// The voxel solid behind the inside test.
+    pub fn solid(&self) -> &Solid {
+        &self.solid
+    }
+
+    /// Bounding box of the sampled colours, CIELAB [L*, a*, b*].
+    pub fn bounds(&self) -> ([f64; 3], [f64; 3]) {
+        (self.lo, self.hi)
+    }
+
+    /// The inside test: the solid's trilinear occupancy at `lab` is at least
+    /// one half, i.e. `lab` is inside the boundary mesh. Constant time.
+    pub fn contains(&self, lab: LabD50) -> bool {
+        self.solid.occupancy(lab.to_array()) >= 0.5
+    }
+
+    /// CIEDE2000 from `lab` to the nearest colour of the gamut: 0 inside,
+    /// else to the nearest point of the boundary mesh. (Far outside, beyond
+    /// the ΔE00 ≈ 10 that CIEDE2000 is made for, its hue terms can rate an
+    /// interior colour nearer than any boundary point; the boundary value is
+    /// the one reported.)
+    pub fn outside_by(&self, lab: LabD50) -> f64 {
+        if self.contains(lab) {
+            return 0.0;
+        }
+        self.locator.nearest(lab).map_or(f64::INFINITY, |(_, d)| d)
+    }
+
+    /// This gamut's solid on `grid`.
+    pub fn rasterise_on(&self, grid: Grid) -> Solid {
+        rasterise(&self.shape, grid)
+    }
+}
+
+/// The eight 3-faces of the ink domain {0 ≤ C, M, Y, K ≤ 100, C+M+Y+K ≤ T}
+/// where one ink is 0 or 100 %, plus the face C+M+Y+K = T when T < 400, each
+/// as an (n+1)³ grid of CMYK values (percent), index (i·(n+1) + j)·(n+1) + k.
+/// Grid points beyond the limit are pulled onto it (the free inks scaled
+/// down together), so every point is a valid ink combination on the domain's
+/// boundary and every boundary point is covered.
+pub fn ink_domain_faces(limit: f64, n: usize) -> Vec<Vec<Px4>> {
+    let m = n + 1;
+    let step = 100.0 / n as f64;
+    let mut faces = Vec::new();
+    for fixed_ink in 0..4 {
+        for fixed in [0.0, 100.0] {
+            if fixed > limit {
+                continue;
+            }
+            let mut face = Vec::with_capacity(m * m * m);
+            for i in 0..m {
+                for j in 0..m {
+                    for k in 0..m {
+                        let mut free = [i as f64 * step, j as f64 * step, k as f64 * step];
+                        let s: f64 = free.iter().sum();
+                        if fixed + s > limit && s > 0.0 {
+                            let scale = (limit - fixed) / s;
+                            free = free.map(|v| v * scale);
+                        }
+                        let mut c = [0.0; 4];
+                        let mut f = free.iter();
+                        for (ink, v) in c.iter_mut().enumerate() {
+                            *v = if ink == fixed_ink {
+                                fixed
+                            } else {
+                                *f.next().unwrap_or(&0.0)
+                            };
+                        }
+                        face.push(c);
+                    }
+                }
+            }
+            faces.push(face);
+        }
+    }
+    if limit < 400.0 {
+        let mut face = Vec::with_capacity(m * m * m);
+        for i in 0..m {
+            for j in 0..m {
+                for k in 0..m {
+                    let mut cmy = [i as f64 * step, j as f64 * step, k as f64 * step];
+                    let s: f64 = cmy.iter().sum();
+                    let mut black = limit - s;
+                    if black > 100.0 {
+                        black = 100.0;
+                    } else if black < 0.0 {
+                        cmy = cmy.map(|v| v * limit / s);
+                        black = 0.0;
+                    }
+                    face.push([cmy[0], cmy[1], cmy[2], black]);
+                }
+            }
+        }
+        faces.push(face);
+    }
+    faces
+}
+
+fn rasterise(shape: &Shape, grid: Grid) -> Solid {
+    let mut cells = vec![0u8; grid.len()];
+    match shape {
+        Shape::Surface(m) => grid::fill_closed_mesh(&grid, &mut cells, &m.vertices, &m.triangles),
+        Shape::Cells(tets) => {
+            let parts = rayon::current_num_threads().max(1);
+            let chunk = tets.len().div_ceil(parts).max(1);
+            let partial: Vec<Vec<u8>> = tets
+                .par_chunks(chunk)
+                .map(|ts| {
+                    let mut c = vec![0u8; grid.len()];
+                    for &t in ts {
+                        grid::fill_tetrahedron(&grid, &mut c, t);
+                    }
+                    c
+                })
+                .collect();
+            for p in partial {
+                for (c, v) in cells.iter_mut().zip(p) {
+                    *c |= v;
+                }
+            }
+            grid::fill_cavities(&grid, &mut cells);
+        }
+    }
+    Solid { grid, cells }
+}
+
+/// Largest C*ab per 30° hue sector over `samples` (CIELAB).
+fn hue_sectors(samples: &[Px3]) -> Vec<HueSector> {
+    let count = (360.0 / SECTOR_DEGREES) as usize;
+    let mut best: Vec<Option<(f64, f64)>> = vec![None; count];
+    for s in samples {
+        let lch = LabD50::from_array(*s).to_lch();
+        let sector = ((lch.h / SECTOR_DEGREES).floor() as usize).min(count - 1);
+        if best[sector].is_none_or(|(c, _)| lch.c > c) {
+            best[sector] = Some((lch.c, lch.l));
+        }
+    }
+    best.into_iter()
+        .enumerate()
+        .map(|(i, b)| {
+            let (c, l) = b.unwrap_or((0.0, 0.0));
+            HueSector {
+                hue_from: i as f64 * SECTOR_DEGREES,
+                hue_to: (i + 1) as f64 * SECTOR_DEGREES,
+                max_chroma: c,
+                l_at_max: l,
+            }
+        })
+        .collect()
+}
+
+/// How much of gamut `a` lies inside gamut `b`.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Coverage {
+    pub a: String,
+    pub b: String,
+    /// |A ∩ B| / |A|, 0..1.
+    pub a_inside_b: f64,
+    /// |A ∩ B| in cubic CIELAB units.
+    pub intersection_volume: f64,
+}
+
+/// Largest number of voxels in a shared coverage grid; beyond it the voxel
+/// grows (wide gamuts such as ROMM RGB span a large box).
+pub const COVERAGE_MAX_VOXELS: f64 = 8.0e6;
+
+/// Coverage both ways between two gamuts, counted on one shared voxel grid
+/// of edge at least `voxel`.
+pub fn coverage_pair(a: &Gamut, b: &Gamut, voxel: f64) -> (Coverage, Coverage) {
+    let lo = [0, 1, 2].map(|d| a.lo[d].min(b.lo[d]));
+    let hi = [0, 1, 2].map(|d| a.hi[d].max(b.hi[d]));
+    let box_volume: f64 = (0..3).map(|d| hi[d] - lo[d] + 4.0 * voxel).product();
+    let h = voxel.max((box_volume / COVERAGE_MAX_VOXELS).cbrt());
+    let grid = Grid::covering(lo, hi, h);
+    let (sa, sb) = rayon::join(|| a.rasterise_on(grid.clone()), || b.rasterise_on(grid.clone()));
+    let (mut na, mut nb, mut nab) = (0usize, 0usize, 0usize);
+    for (x, y) in sa.cells.iter().zip(&sb.cells) {
+        na += usize::from(*x != 0);
+        nb += usize::from(*y != 0);
+        nab += usize::from(*x != 0 && *y != 0);
+    }
+    let v = h.powi(3);
+    let share = |n: usize| if n == 0 { 0.0 } else { nab as f64 / n as f64 };
+    (
+        Coverage {
+            a: a.name.clone(),
+            b: b.name.clone(),
+            a_inside_b: share(na),
+            intersection_volume: nab as f64 * v,
+        },
+        Coverage {
+            a: b.name.clone(),
+            b: a.name.clone(),
+            a_inside_b: share(nb),
+            intersection_volume: nab as f64 * v,
+        },
+    )
+}
+
+/// Every ordered pair (A, B) with A ≠ B, A in input order, then B.
+pub fn coverage_all(gamuts: &[Gamut], voxel: f64) -> Vec<Coverage> {
+    let n = gamuts.len();
+    let mut table: Vec<Option<Coverage>> = vec![None; n * n];
+    for i in 0..n {
+        for j in i + 1..n {
+            let (ab, ba) = coverage_pair(&gamuts[i], &gamuts[j], voxel);
+            table[i * n + j] = Some(ab);
+            table[j * n + i] = Some(ba);
+        }
+    }
+    table.into_iter().flatten().collect()
+}
+
+/// Which test decides whether a palette colour is printable.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum GamutTest {
+    /// CIELAB → press → CIELAB returns within a ΔE00 threshold.
+    RoundTrip,
+    /// Inside the press gamut's boundary, or within [`EDGE_TOLERANCE`] of it.
+    Boundary,
+}
+
+/// A colour this close (ΔE00) to the boundary counts as printable: about one
+/// just-noticeable difference (common practice), the same threshold the
+/// round-trip test uses, and above the voxel grid's discretisation
+/// (half a voxel of 1 ΔE*ab).
+pub const EDGE_TOLERANCE: f64 = 1.0;
+
+impl Gamut {
+    /// The boundary test behind `inkfit check`: the distance to the gamut in
+    /// CIEDE2000 (0 inside) and whether it is within [`EDGE_TOLERANCE`].
+    pub fn judge(&self, lab: LabD50) -> (bool, f64) {
+        let d = self.outside_by(lab);
+        (d <= EDGE_TOLERANCE, d)
+    }
+}
+
+/// CIEDE2000 from `lab` to the nearest of `points` (brute force); used to
+/// check the locator and by callers with their own samples.
+pub fn nearest_brute_force(lab: LabD50, points: &[Px3]) -> f64 {
+    points
+        .iter()
+        .map(|p| delta_e00(lab, LabD50::from_array(*p)))
+        .fold(f64::INFINITY, f64::min)
+}
