@@ -90,10 +90,10 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
                 f(e.delta_e00, 2),
                 if e.within_tolerance { Tone::Plain } else { Tone::Bad },
             ),
-            if e.in_gamut {
-                plain("inside".into())
-            } else {
-                ("outside".into(), Tone::Bad)
+            match (e.in_gamut, e.outside_by) {
+                (true, _) => plain("inside".into()),
+                (false, Some(d)) => (format!("out by {}", f(d, 1)), Tone::Bad),
+                (false, None) => ("outside".into(), Tone::Bad),
             },
             if e.within_tolerance {
                 ("holds".into(), Tone::Good)
