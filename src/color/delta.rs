@@ -25,6 +25,22 @@ pub fn delta_e76(a: LabD50, b: LabD50) -> f64 {
 /// 180° there, so ΔE00 is discontinuous on that edge (Sharma et al., section
 /// "Mathematical observations", and their test pairs 13–15).
 pub fn delta_e00(lab1: LabD50, lab2: LabD50) -> f64 {
+    let [tl, tc, th, rt] = de00_terms(lab1, lab2);
+    (tl * tl + tc * tc + th * th + rt * tc * th).sqrt()
+}
+
+/// CIEDE2000 as three residuals whose squared norm is ΔE00², for least
+/// squares: with u = ΔC'/S_C and v = ΔH'/S_H, completing the square
+/// (|R_T| ≤ 2) gives ΔE00² = (ΔL'/S_L)² + (u + R_T·v/2)² + (1 − R_T²/4)·v².
+/// Differences are `sample` − `reference`.
+pub fn delta_e00_residuals(reference: LabD50, sample: LabD50) -> [f64; 3] {
+    let [tl, u, v, rt] = de00_terms(reference, sample);
+    [tl, u + 0.5 * rt * v, (1.0 - 0.25 * rt * rt).max(0.0).sqrt() * v]
+}
+
+/// The CIEDE2000 terms ΔL'/S_L, ΔC'/S_C, ΔH'/S_H and R_T (Sharma et al.,
+/// eqs. 1–22), differences taken as `lab2` − `lab1`.
+fn de00_terms(lab1: LabD50, lab2: LabD50) -> [f64; 4] {
     let (l1, a1, b1) = (lab1.l, lab1.a, lab1.b);
     let (l2, a2, b2) = (lab2.l, lab2.a, lab2.b);
 
@@ -95,10 +111,7 @@ pub fn delta_e00(lab1: LabD50, lab2: LabD50) -> f64 {
     let sh = 1.0 + 0.015 * c_bar_p * t;
     let rt = -(2.0 * d_theta).to_radians().sin() * rc;
 
-    let tl = dlp / sl;
-    let tc = dcp / sc;
-    let th = dhp_big / sh;
-    (tl * tl + tc * tc + th * th + rt * tc * th).sqrt()
+    [dlp / sl, dcp / sc, dhp_big / sh, rt]
 }
 
 /// Chroma of (a, b), and the squared CIELAB hue difference ΔH*² between two

@@ -2,6 +2,7 @@
 //! its text rendering: one table of profiles, one of the largest chroma per
 //! hue sector, and the coverage of every pair as a table and in words.
 
+use crate::report::round;
 use std::io::{self, Write};
 
 use serde::Serialize;
@@ -40,16 +41,6 @@ pub struct MeshFile {
     pub file: String,
     pub vertices: usize,
     pub triangles: usize,
-}
-
-fn round(v: f64, places: i32) -> f64 {
-    let f = 10f64.powi(places);
-    let r = (v * f).round() / f;
-    if r == 0.0 {
-        0.0
-    } else {
-        r
-    }
 }
 
 impl GamutReport {

@@ -10,8 +10,9 @@
 //!
 //! with x the nominal ink fractions, D first the CIELAB difference vector
 //! (ΔE*ab, CIE 015:2018) and then the CIEDE2000 residual vector
-//! ([`de00_residuals`]). For a target outside the gamut the minimiser is the
-//! printable colour closest to it in CIEDE2000: a minimum-ΔE clip. ΔE*ab
+//! (`color::delta::delta_e00_residuals`). For a target outside the gamut
+//! the minimiser is the printable colour closest to it in CIEDE2000: a
+//! minimum-ΔE clip. ΔE*ab
 //! least squares finds the basin (smooth and well-scaled everywhere, also far
 //! from the gamut); CIEDE2000, the difference the checks report, picks the
 //! final point, because it weighs lightness, chroma and hue errors the way
@@ -19,6 +20,7 @@
 
 use super::model::PrintCondition;
 use super::PressError;
+use crate::color::delta::delta_e00_residuals;
 use crate::color::LabD50;
 use rayon::prelude::*;
 
@@ -125,80 +127,6 @@ pub fn project_ink(y: [f64; 4], cap: f64) -> [f64; 4] {
         }
     }
     clip(hi)
-}
-
-/// CIEDE2000 as a vector of three residuals whose squared norm is ΔE00².
-///
-/// CIE 142-2001 (notation of Sharma, Wu and Dalal, Color Res. Appl. 30,
-/// 2005, eqs. 1–22, kL = kC = kH = 1):
-/// ΔE00² = (ΔL'/S_L)² + u² + v² + R_T·u·v, u = ΔC'/S_C, v = ΔH'/S_H.
-/// Completing the square (|R_T| ≤ 2): ΔE00² = (ΔL'/S_L)² + (u + R_T v/2)²
-/// + (1 − R_T²/4)·v². Differences are sample − reference.
-pub fn de00_residuals(reference: LabD50, sample: LabD50) -> [f64; 3] {
-    let (l1, a1, b1) = (reference.l, reference.a, reference.b);
-    let (l2, a2, b2) = (sample.l, sample.a, sample.b);
-    let c_bar = 0.5 * (a1.hypot(b1) + a2.hypot(b2));
-    let c7 = c_bar.powi(7);
-    let g = 0.5 * (1.0 - (c7 / (c7 + 25f64.powi(7))).sqrt());
-    let a1p = (1.0 + g) * a1;
-    let a2p = (1.0 + g) * a2;
-    let c1p = a1p.hypot(b1);
-    let c2p = a2p.hypot(b2);
-    let hue = |b: f64, ap: f64| {
-        if b == 0.0 && ap == 0.0 {
-            0.0
-        } else {
-            let h = b.atan2(ap).to_degrees();
-            if h < 0.0 {
-                h + 360.0
-            } else {
-                h
-            }
-        }
-    };
-    let h1p = hue(b1, a1p);
-    let h2p = hue(b2, a2p);
-    let dlp = l2 - l1;
-    let dcp = c2p - c1p;
-    let dhp = if c1p * c2p == 0.0 {
-        0.0
-    } else {
-        let d = h2p - h1p;
-        if d > 180.0 {
-            d - 360.0
-        } else if d < -180.0 {
-            d + 360.0
-        } else {
-            d
-        }
-    };
-    let dhp_big = 2.0 * (c1p * c2p).sqrt() * (dhp.to_radians() / 2.0).sin();
-    let l_bar_p = 0.5 * (l1 + l2);
-    let c_bar_p = 0.5 * (c1p + c2p);
-    let h_bar_p = if c1p * c2p == 0.0 {
-        h1p + h2p
-    } else if (h1p - h2p).abs() <= 180.0 {
-        0.5 * (h1p + h2p)
-    } else if h1p + h2p < 360.0 {
-        0.5 * (h1p + h2p + 360.0)
-    } else {
-        0.5 * (h1p + h2p - 360.0)
-    };
-    let t = 1.0 - 0.17 * (h_bar_p - 30.0).to_radians().cos()
-        + 0.24 * (2.0 * h_bar_p).to_radians().cos()
-        + 0.32 * (3.0 * h_bar_p + 6.0).to_radians().cos()
-        - 0.20 * (4.0 * h_bar_p - 63.0).to_radians().cos();
-    let d_theta = 30.0 * (-((h_bar_p - 275.0) / 25.0).powi(2)).exp();
-    let cbp7 = c_bar_p.powi(7);
-    let rc = 2.0 * (cbp7 / (cbp7 + 25f64.powi(7))).sqrt();
-    let l50 = (l_bar_p - 50.0).powi(2);
-    let sl = 1.0 + 0.015 * l50 / (20.0 + l50).sqrt();
-    let sc = 1.0 + 0.045 * c_bar_p;
-    let sh = 1.0 + 0.015 * c_bar_p * t;
-    let rt = -(2.0 * d_theta).to_radians().sin() * rc;
-    let u = dcp / sc;
-    let v = dhp_big / sh;
-    [dlp / sl, u + 0.5 * rt * v, (1.0 - 0.25 * rt * rt).max(0.0).sqrt() * v]
 }
 
 /// The colour difference a solve minimises.
@@ -350,7 +278,7 @@ impl Problem<'_> {
                 [lab.l - self.target.l, lab.a - self.target.a, lab.b - self.target.b]
             }
             Metric::E00 => {
-                let r = de00_residuals(self.target, lab);
+                let r = delta_e00_residuals(self.target, lab);
                 if with_jacobian {
                     // ∂r/∂Lab by forward differences (step 1e-6 in CIELAB
                     // units, ample for Gauss–Newton steps), chained with
@@ -361,7 +289,7 @@ impl Problem<'_> {
                     for q in 0..3 {
                         let mut up = base;
                         up[q] += h;
-                        let ru = de00_residuals(self.target, LabD50::from_array(up));
+                        let ru = delta_e00_residuals(self.target, LabD50::from_array(up));
                         for row in 0..3 {
                             drl[row][q] = (ru[row] - r[row]) / h;
                         }
@@ -632,7 +560,7 @@ mod tests {
         ];
         for (a, b, want) in cases {
             let (p, q) = (LabD50::new(a.0, a.1, a.2), LabD50::new(b.0, b.1, b.2));
-            let r = de00_residuals(p, q);
+            let r = delta_e00_residuals(p, q);
             let de = (r[0] * r[0] + r[1] * r[1] + r[2] * r[2]).sqrt();
             assert!((de - want).abs() < 1e-4, "{de} vs {want}");
             assert!((de - delta_e00(p, q)).abs() < 1e-9);

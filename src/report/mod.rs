@@ -13,6 +13,18 @@ use crate::icc::inspect::{ProfileReport, TableReport};
 use crate::swatch::check::CheckReport;
 use table::{Align, Table, Tone};
 
+/// `v` rounded to `places` decimals, with negative zero made positive: the
+/// fixed precision every result struct stores.
+pub fn round(v: f64, places: i32) -> f64 {
+    let f = 10f64.powi(places);
+    let r = (v * f).round() / f;
+    if r == 0.0 {
+        0.0
+    } else {
+        r
+    }
+}
+
 /// Pretty JSON with a final newline.
 pub fn write_json<T: Serialize>(w: &mut dyn Write, value: &T) -> io::Result<()> {
     serde_json::to_writer_pretty(&mut *w, value)?;

@@ -2,6 +2,7 @@
 //! press CMYK under the chosen rendering intent, the CIELAB of that CMYK as
 //! printed, CIEDE2000 between the two, and whether the colour is printable.
 
+use crate::report::round;
 use serde::Serialize;
 
 use super::Palette;
@@ -76,16 +77,6 @@ pub struct CheckReport {
     pub notes: Vec<String>,
     pub entries: Vec<CheckedEntry>,
     pub summary: CheckSummary,
-}
-
-fn round(v: f64, places: i32) -> f64 {
-    let f = 10f64.powi(places);
-    let r = (v * f).round() / f;
-    if r == 0.0 {
-        0.0
-    } else {
-        r
-    }
 }
 
 fn round_all<const N: usize>(v: [f64; N], places: i32) -> [f64; N] {
