@@ -17,5 +17,6 @@ pub mod gamut;
 pub mod icc;
 pub mod io;
 pub mod press;
+pub mod proof;
 pub mod report;
 pub mod swatch;

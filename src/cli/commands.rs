@@ -36,6 +36,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<Outcome, Error> {
         Command::Delta(a) => run_delta(a, out),
         Command::Inspect(a) => run_inspect(a, out),
         Command::Profiles(a) => run_profiles(a, out),
+        Command::Proof(a) => super::proof::run_proof(a, out),
         Command::Gamut(a) => super::gamut::run_gamut(a, out),
         Command::BuildPress(a) => run_build_press(a),
     }

@@ -3,6 +3,7 @@
 
 mod commands;
 mod gamut;
+mod proof;
 
 use std::path::PathBuf;
 
@@ -33,6 +34,8 @@ pub enum Command {
     Inspect(InspectArgs),
     /// List the built-in profiles.
     Profiles(ProfilesArgs),
+    /// Soft-proof images: how they print on the press, a CIEDE2000 map and statistics.
+    Proof(proof::ProofArgs),
     /// Gamut of each profile in CIELAB: volume, lightness range, chroma per hue, coverage of each pair, meshes.
     Gamut(GamutArgs),
     /// Maintainers: rebuild a built-in press profile from its printing model.

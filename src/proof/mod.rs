@@ -1,0 +1,587 @@
+//! Soft proofs of images: how a screen image will look printed on the press,
+//! the CIEDE2000 between the original and its print for every pixel, and
+//! statistics of those differences.
+//!
+//! The chain, per pixel:
+//! 1. input device values → press CMYK with the chosen rendering intent and
+//!    black point compensation (BPC applies to this step only);
+//! 2. press CMYK → screen, relative colorimetric (absolute colorimetric with
+//!    `paper_white`, so the paper's own white and tint show), never BPC.
+//!
+//! The proof image is one lcms2 proofing transform
+//! (`cmsCreateProofingTransform` with `cmsFLAGS_SOFTPROOFING`; without the flag
+//! lcms2 builds a plain input → screen transform), in the image's own bit
+//! depth, so lcms2 runs its optimised 8- or 16-bit path.
+//!
+//! ΔE00 and the gamut flag of a pixel depend on its input colour alone, for
+//! fixed profiles and mapping. Instead of running double-precision
+//! transforms for every pixel, inkfit evaluates them exactly ([`ExactModel`])
+//! on the nodes of a grid over the input device space and interpolates
+//! ([`DeltaTable`]: tetrahedral over 65³ nodes for RGB, linear over every
+//! 8-bit value or 4097 nodes for 16-bit grey). The accuracy of that shortcut
+//! against the exact per-pixel computation is tested in `tests/proof.rs`.
+//!
+//! The gamut test is the one [`crate::swatch::check`] uses: the round trip
+//! CIELAB → press → CIELAB (relative colorimetric, no BPC) returns within
+//! [`ROUND_TRIP_THRESHOLD`] ΔE00.
+
+pub mod heat;
+pub mod raster;
+pub mod report;
+pub mod stats;
+
+use lcms2::{DisallowCache, Flags, GlobalContext, PixelFormat, Transform};
+use rayon::prelude::*;
+
+use crate::color::delta::delta_e00;
+use crate::color::LabD50;
+use crate::icc::header::{SPACE_GRAY, SPACE_RGB};
+use crate::icc::transform::{lab_d50_profile, PressMapping};
+use crate::icc::{IccError, IccProfile, RenderingIntent};
+pub use crate::swatch::check::ROUND_TRIP_THRESHOLD;
+use heat::HeatScale;
+use raster::Raster;
+use stats::{bin_of, Tally};
+
+/// A transform that rayon workers can share: built without lcms2's one-pixel
+/// cache through a context constructor, which makes it `Sync`.
+pub type SharedTransform = Transform<u8, u8, GlobalContext, DisallowCache>;
+
+/// Nodes per axis of the RGB table.
+pub const RGB_GRID: usize = 65;
+/// Pixels per parallel task.
+const CHUNK: usize = 32 * 1024;
+
+fn no_cache(bpc: bool) -> Flags<DisallowCache> {
+    if bpc {
+        Flags::NO_CACHE | Flags::BLACKPOINT_COMPENSATION
+    } else {
+        Flags::NO_CACHE
+    }
+}
+
+/// The lcms2 pixel format of `channels` (1 grey or 3 RGB) at `bits` (8 or 16).
+fn device_format(channels: usize, bits: u8) -> PixelFormat {
+    match (channels, bits) {
+        (1, 8) => PixelFormat::GRAY_8,
+        (1, _) => PixelFormat::GRAY_16,
+        (_, 8) => PixelFormat::RGB_8,
+        _ => PixelFormat::RGB_16,
+    }
+}
+
+/// Checks that an image's own profile can describe its pixels: an RGB
+/// profile with a table or matrix to the connection space for RGB pixels, a
+/// grey one for grey pixels.
+pub fn check_embedded(profile: &IccProfile, channels: usize) -> Result<(), String> {
+    let h = &profile.header;
+    let has = |s: &[u8; 4]| h.tag(s).is_some();
+    let to_pcs = has(b"A2B0") || has(b"A2B1") || has(b"A2B2") || profile.is_matrix_shaper();
+    let (space, what) = if channels == 1 {
+        (SPACE_GRAY, "a grey profile")
+    } else {
+        (SPACE_RGB, "an RGB profile")
+    };
+    if h.color_space == space && to_pcs {
+        Ok(())
+    } else {
+        Err(format!(
+            "the embedded profile is {}; {} {} image needs {what}",
+            profile.kind_phrase(),
+            if channels == 1 { "a" } else { "an" },
+            if channels == 1 { "grey" } else { "RGB" }
+        ))
+    }
+}
+
+fn to_bytes(v: &[f64]) -> Vec<u8> {
+    v.iter().flat_map(|x| x.to_ne_bytes()).collect()
+}
+
+fn from_bytes(b: &[u8]) -> Vec<f64> {
+    b.chunks_exact(8)
+        .map(|c| f64::from_ne_bytes([c[0], c[1], c[2], c[3], c[4], c[5], c[6], c[7]]))
+        .collect()
+}
+
+/// The exact per-colour computation in double precision: CIELAB of the
+/// input colour (relative colorimetric through its profile), CIELAB of its
+/// print (through the press, as in `check`), CIEDE2000 between them, and
+/// the ΔE00 of the colorimetric round trip behind the gamut flag.
+pub struct ExactModel {
+    channels: usize,
+    to_lab: SharedTransform,
+    to_press: SharedTransform,
+    printed: SharedTransform,
+    lab_to_press: SharedTransform,
+    press_to_lab: SharedTransform,
+}
+
+impl ExactModel {
+    pub fn new(
+        input: &IccProfile,
+        channels: usize,
+        press: &IccProfile,
+        mapping: PressMapping,
+    ) -> Result<Self, IccError> {
+        let lab = lab_d50_profile();
+        let ctx = GlobalContext::new;
+        let in_fmt = if channels == 1 {
+            PixelFormat::GRAY_DBL
+        } else {
+            PixelFormat::RGB_DBL
+        };
+        let rel = RenderingIntent::Relative;
+        let shown = if mapping.paper_white {
+            RenderingIntent::Absolute
+        } else {
+            rel
+        };
+        let err = |p: &IccProfile, what: &'static str, intent| IccError::Transform {
+            name: p.name.clone(),
+            what,
+            intent,
+        };
+        Ok(Self {
+            channels,
+            to_lab: Transform::new_flags_context(
+                ctx(),
+                &input.lcms,
+                in_fmt,
+                &lab,
+                PixelFormat::Lab_DBL,
+                rel.to_lcms(),
+                no_cache(false),
+            )
+            .map_err(|_| err(input, "image → CIELAB", rel))?,
+            to_press: Transform::new_flags_context(
+                ctx(),
+                &input.lcms,
+                in_fmt,
+                &press.lcms,
+                PixelFormat::CMYK_DBL,
+                mapping.intent.to_lcms(),
+                no_cache(mapping.bpc),
+            )
+            .map_err(|_| err(press, "image → press", mapping.intent))?,
+            printed: Transform::new_flags_context(
+                ctx(),
+                &press.lcms,
+                PixelFormat::CMYK_DBL,
+                &lab,
+                PixelFormat::Lab_DBL,
+                shown.to_lcms(),
+                no_cache(false),
+            )
+            .map_err(|_| err(press, "press → CIELAB", shown))?,
+            lab_to_press: Transform::new_flags_context(
+                ctx(),
+                &lab,
+                PixelFormat::Lab_DBL,
+                &press.lcms,
+                PixelFormat::CMYK_DBL,
+                rel.to_lcms(),
+                no_cache(false),
+            )
+            .map_err(|_| err(press, "CIELAB → press", rel))?,
+            press_to_lab: Transform::new_flags_context(
+                ctx(),
+                &press.lcms,
+                PixelFormat::CMYK_DBL,
+                &lab,
+                PixelFormat::Lab_DBL,
+                rel.to_lcms(),
+                no_cache(false),
+            )
+            .map_err(|_| err(press, "press → CIELAB", rel))?,
+        })
+    }
+
+    fn run(t: &SharedTransform, input: &[f64], out_channels: usize, n: usize) -> Vec<f64> {
+        let src = to_bytes(input);
+        let mut dst = vec![0u8; n * out_channels * 8];
+        t.transform_pixels(&src, &mut dst);
+        from_bytes(&dst)
+    }
+
+    /// For device values (0..1, `channels` per colour): per colour
+    /// `[ΔE00 original ↔ print, ΔE00 of the colorimetric round trip]`.
+    pub fn evaluate(&self, device: &[f64]) -> Vec<[f32; 2]> {
+        let n = device.len() / self.channels;
+        let lab = Self::run(&self.to_lab, device, 3, n);
+        let cmyk = Self::run(&self.to_press, device, 4, n);
+        let printed = Self::run(&self.printed, &cmyk, 3, n);
+        let rt_cmyk = Self::run(&self.lab_to_press, &lab, 4, n);
+        let rt = Self::run(&self.press_to_lab, &rt_cmyk, 3, n);
+        let at = |v: &[f64], i: usize| LabD50::new(v[3 * i], v[3 * i + 1], v[3 * i + 2]);
+        (0..n)
+            .map(|i| {
+                let o = at(&lab, i);
+                [delta_e00(o, at(&printed, i)) as f32, delta_e00(o, at(&rt, i)) as f32]
+            })
+            .collect()
+    }
+
+    /// CIELAB D50 of device values through the input profile (relative).
+    pub fn original_lab(&self, device: &[f64]) -> Vec<LabD50> {
+        let n = device.len() / self.channels;
+        let v = Self::run(&self.to_lab, device, 3, n);
+        (0..n)
+            .map(|i| LabD50::new(v[3 * i], v[3 * i + 1], v[3 * i + 2]))
+            .collect()
+    }
+
+    /// CIELAB D50 of device values as printed (as the proof shows them).
+    pub fn printed_lab(&self, device: &[f64]) -> Vec<LabD50> {
+        let n = device.len() / self.channels;
+        let cmyk = Self::run(&self.to_press, device, 4, n);
+        let v = Self::run(&self.printed, &cmyk, 3, n);
+        (0..n)
+            .map(|i| LabD50::new(v[3 * i], v[3 * i + 1], v[3 * i + 2]))
+            .collect()
+    }
+}
+
+/// `[ΔE00, round-trip ΔE00]` tabulated over the input device space.
+pub struct DeltaTable {
+    channels: usize,
+    /// Nodes per axis.
+    n: usize,
+    /// Node values; RGB nodes in order (r·n + g)·n + b.
+    nodes: Vec<[f32; 2]>,
+}
+
+impl DeltaTable {
+    /// Evaluates `model` at `n` evenly spaced device values per axis
+    /// (0, 1/(n−1), …, 1).
+    pub fn build(model: &ExactModel, n: usize) -> Self {
+        let n = n.max(2);
+        let ch = model.channels;
+        let count = if ch == 1 { n } else { n * n * n };
+        let step = 1.0 / (n - 1) as f64;
+        let device: Vec<f64> = (0..count)
+            .flat_map(|i| {
+                if ch == 1 {
+                    vec![i as f64 * step]
+                } else {
+                    vec![
+                        (i / (n * n)) as f64 * step,
+                        (i / n % n) as f64 * step,
+                        (i % n) as f64 * step,
+                    ]
+                }
+            })
+            .collect();
+        let nodes: Vec<[f32; 2]> = device
+            .par_chunks(ch * 4096)
+            .flat_map_iter(|c| model.evaluate(c))
+            .collect();
+        Self { channels: ch, n, nodes }
+    }
+
+    pub fn nodes_per_axis(&self) -> usize {
+        self.n
+    }
+
+    /// Device channels of the table's input (1 grey, 3 RGB).
+    pub fn channels(&self) -> usize {
+        self.channels
+    }
+
+    /// Interpolated values at grey sample `v` of `max` (255 or 65535): linear.
+    #[inline(always)]
+    pub fn grey(&self, v: u32, max: f32) -> [f32; 2] {
+        let p = v as f32 * ((self.n - 1) as f32 / max);
+        let i = (p as usize).min(self.n - 2);
+        let f = p - i as f32;
+        let (a, b) = (self.nodes[i], self.nodes[i + 1]);
+        [a[0] + (b[0] - a[0]) * f, a[1] + (b[1] - a[1]) * f]
+    }
+
+    /// Interpolated values at RGB samples of `max` (255 or 65535):
+    /// tetrahedral interpolation in the grid cell (the six-tetrahedron split
+    /// along the main diagonal; Kasson, Nin, Plouffe & Hafner, J. Electronic
+    /// Imaging 4(4), 1995).
+    #[inline(always)]
+    pub fn rgb(&self, r: u32, g: u32, b: u32, max: f32) -> [f32; 2] {
+        let n = self.n;
+        let s = (n - 1) as f32 / max;
+        let (pr, pg, pb) = (r as f32 * s, g as f32 * s, b as f32 * s);
+        let ir = (pr as usize).min(n - 2);
+        let ig = (pg as usize).min(n - 2);
+        let ib = (pb as usize).min(n - 2);
+        let (fx, fy, fz) = (pr - ir as f32, pg - ig as f32, pb - ib as f32);
+        let (dx, dy, dz) = (n * n, n, 1);
+        let base = (ir * n + ig) * n + ib;
+        // (second corner, third corner, weights of corners 0..3)
+        let (c1, c2, w) = if fx >= fy {
+            if fy >= fz {
+                (dx, dx + dy, [1.0 - fx, fx - fy, fy - fz, fz])
+            } else if fx >= fz {
+                (dx, dx + dz, [1.0 - fx, fx - fz, fz - fy, fy])
+            } else {
+                (dz, dx + dz, [1.0 - fz, fz - fx, fx - fy, fy])
+            }
+        } else if fz >= fy {
+            (dz, dy + dz, [1.0 - fz, fz - fy, fy - fx, fx])
+        } else if fz >= fx {
+            (dy, dy + dz, [1.0 - fy, fy - fz, fz - fx, fx])
+        } else {
+            (dy, dx + dy, [1.0 - fy, fy - fx, fx - fz, fz])
+        };
+        let v0 = self.nodes[base];
+        let v1 = self.nodes[base + c1];
+        let v2 = self.nodes[base + c2];
+        let v3 = self.nodes[base + dx + dy + dz];
+        [
+            w[0] * v0[0] + w[1] * v1[0] + w[2] * v2[0] + w[3] * v3[0],
+            w[0] * v0[1] + w[1] * v1[1] + w[2] * v2[1] + w[3] * v3[1],
+        ]
+    }
+}
+
+/// How per-pixel ΔE00 values are obtained.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Method {
+    /// Double-precision transforms and CIEDE2000 for every pixel.
+    Exact,
+    /// Interpolation in the [`DeltaTable`].
+    Table,
+}
+
+/// What one image's proof produced.
+pub struct ProofOutput {
+    /// The proof: RGB samples at the input's depth, in the screen profile.
+    pub proof: Vec<u8>,
+    /// The ΔE00 map: 8-bit sRGB samples, when asked for.
+    pub map: Option<Vec<u8>>,
+    pub tally: Tally,
+}
+
+/// Everything needed to proof images of one colour space and layout.
+pub struct ProofEngine {
+    channels: usize,
+    bits: u8,
+    proof: SharedTransform,
+    exact: ExactModel,
+    table: DeltaTable,
+}
+
+impl ProofEngine {
+    /// `input` describes the image's pixels (`channels` 1 or 3, `bits` 8 or 16);
+    /// the proof is shown on `screen`.
+    pub fn new(
+        input: &IccProfile,
+        channels: usize,
+        bits: u8,
+        screen: &IccProfile,
+        press: &IccProfile,
+        mapping: PressMapping,
+    ) -> Result<Self, IccError> {
+        let shown = if mapping.paper_white {
+            RenderingIntent::Absolute
+        } else {
+            RenderingIntent::Relative
+        };
+        let proof = Transform::new_proofing_context(
+            GlobalContext::new(),
+            &input.lcms,
+            device_format(channels, bits),
+            &screen.lcms,
+            device_format(3, bits),
+            &press.lcms,
+            mapping.intent.to_lcms(),
+            shown.to_lcms(),
+            no_cache(mapping.bpc) | Flags::SOFT_PROOFING,
+        )
+        .map_err(|_| IccError::Transform {
+            name: press.name.clone(),
+            what: "soft proof",
+            intent: mapping.intent,
+        })?;
+        let exact = ExactModel::new(input, channels, press, mapping)?;
+        let n = match (channels, bits) {
+            (1, 8) => 256,
+            (1, _) => 4097,
+            _ => RGB_GRID,
+        };
+        let table = DeltaTable::build(&exact, n);
+        Ok(Self {
+            channels,
+            bits,
+            proof,
+            exact,
+            table,
+        })
+    }
+
+    pub fn exact(&self) -> &ExactModel {
+        &self.exact
+    }
+
+    pub fn table(&self) -> &DeltaTable {
+        &self.table
+    }
+
+    fn in_px(&self) -> usize {
+        self.channels * usize::from(self.bits / 8)
+    }
+
+    fn out_px(&self) -> usize {
+        3 * usize::from(self.bits / 8)
+    }
+
+    /// Device values 0..1 of samples.
+    fn normalised(&self, color: &[u8]) -> Vec<f64> {
+        if self.bits == 8 {
+            color.iter().map(|&v| f64::from(v) / 255.0).collect()
+        } else {
+            color
+                .chunks_exact(2)
+                .map(|c| f64::from(u16::from_ne_bytes([c[0], c[1]])) / 65535.0)
+                .collect()
+        }
+    }
+
+    /// The bare proof transform over `color`, in parallel chunks.
+    pub fn proof_only(&self, color: &[u8]) -> Vec<u8> {
+        let n = color.len() / self.in_px();
+        let mut out = vec![0u8; n * self.out_px()];
+        color
+            .par_chunks(CHUNK * self.in_px())
+            .zip(out.par_chunks_mut(CHUNK * self.out_px()))
+            .for_each(|(s, d)| self.proof.transform_pixels(s, d));
+        out
+    }
+
+    /// `[ΔE00, round-trip ΔE00]` of every pixel of `color`.
+    pub fn deltas(&self, color: &[u8], method: Method) -> Vec<[f32; 2]> {
+        color
+            .par_chunks(CHUNK * self.in_px())
+            .flat_map_iter(|c| self.chunk_deltas(c, method))
+            .collect()
+    }
+
+    fn chunk_deltas(&self, c: &[u8], method: Method) -> Vec<[f32; 2]> {
+        match method {
+            Method::Exact => self.exact.evaluate(&self.normalised(c)),
+            Method::Table => {
+                let max = if self.bits == 8 { 255.0 } else { 65535.0 };
+                let v: Vec<u32> = if self.bits == 8 {
+                    c.iter().map(|&x| u32::from(x)).collect()
+                } else {
+                    c.chunks_exact(2)
+                        .map(|x| u32::from(u16::from_ne_bytes([x[0], x[1]])))
+                        .collect()
+                };
+                if self.channels == 1 {
+                    v.iter().map(|&g| self.table.grey(g, max)).collect()
+                } else {
+                    v.chunks_exact(3)
+                        .map(|p| self.table.rgb(p[0], p[1], p[2], max))
+                        .collect()
+                }
+            }
+        }
+    }
+
+    /// Proofs a decoded image: the proof, the ΔE00 map when `heat` is given,
+    /// and the statistics. `method` chooses how ΔE00 is obtained.
+    pub fn run(&self, raster: &Raster, heat: Option<&HeatScale>, method: Method) -> ProofOutput {
+        let color = &raster.color;
+        let n = color.len() / self.in_px();
+        let mut proof = vec![0u8; n * self.out_px()];
+        let mut map = heat.map(|_| vec![0u8; n * 3]);
+        let src: Vec<&[u8]> = color.chunks(CHUNK * self.in_px()).collect();
+        let dst: Vec<&mut [u8]> = proof.chunks_mut(CHUNK * self.out_px()).collect();
+        let maps: Vec<Option<&mut [u8]>> = match map.as_mut() {
+            Some(m) => m.chunks_mut(CHUNK * 3).map(Some).collect(),
+            None => (0..src.len()).map(|_| None).collect(),
+        };
+        let tally = src
+            .into_par_iter()
+            .zip(dst)
+            .zip(maps)
+            .fold(Tally::new, |mut t, ((s, d), m)| {
+                self.proof.transform_pixels(s, d);
+                match method {
+                    Method::Table => match (self.channels, self.bits) {
+                        (1, 8) => self.fused::<1, 1>(s, m, heat, &mut t),
+                        (1, _) => self.fused::<1, 2>(s, m, heat, &mut t),
+                        (_, 8) => self.fused::<3, 1>(s, m, heat, &mut t),
+                        _ => self.fused::<3, 2>(s, m, heat, &mut t),
+                    },
+                    Method::Exact => {
+                        let v = self.chunk_deltas(s, Method::Exact);
+                        accumulate(&v, m, heat, &mut t);
+                    }
+                }
+                t
+            })
+            .reduce(Tally::new, Tally::merge);
+        ProofOutput { proof, map, tally }
+    }
+
+    /// Table lookup, map colour and tally in one pass; a pixel equal to the
+    /// one before reuses its result.
+    #[inline(always)]
+    fn fused<const CH: usize, const BPS: usize>(
+        &self,
+        src: &[u8],
+        mut map: Option<&mut [u8]>,
+        heat: Option<&HeatScale>,
+        t: &mut Tally,
+    ) {
+        let max = if BPS == 1 { 255.0 } else { 65535.0 };
+        let limit = ROUND_TRIP_THRESHOLD as f32;
+        let mut prev_key = u64::MAX;
+        let (mut de, mut bin, mut outside, mut rgb) = (0f32, 0usize, false, [0u8; 3]);
+        for (i, px) in src.chunks_exact(CH * BPS).enumerate() {
+            let sample = |k: usize| -> u32 {
+                if BPS == 1 {
+                    u32::from(px[k])
+                } else {
+                    u32::from(u16::from_ne_bytes([px[2 * k], px[2 * k + 1]]))
+                }
+            };
+            let (a, b, c) = if CH == 1 {
+                (sample(0), 0, 0)
+            } else {
+                (sample(0), sample(1), sample(2))
+            };
+            let key = u64::from(a) | (u64::from(b) << 16) | (u64::from(c) << 32);
+            if key != prev_key {
+                prev_key = key;
+                let v = if CH == 1 {
+                    self.table.grey(a, max)
+                } else {
+                    self.table.rgb(a, b, c, max)
+                };
+                de = v[0];
+                bin = bin_of(de);
+                outside = v[1] > limit;
+                if let Some(h) = heat {
+                    rgb = h.color_of_bin(bin);
+                }
+            }
+            t.hist[bin] += 1;
+            t.sum += f64::from(de);
+            t.max = t.max.max(de);
+            t.outside_gamut += u64::from(outside);
+            if let Some(m) = map.as_deref_mut() {
+                m[3 * i..3 * i + 3].copy_from_slice(&rgb);
+            }
+        }
+        t.pixels += (src.len() / (CH * BPS)) as u64;
+    }
+}
+
+fn accumulate(v: &[[f32; 2]], mut map: Option<&mut [u8]>, heat: Option<&HeatScale>, t: &mut Tally) {
+    let limit = ROUND_TRIP_THRESHOLD as f32;
+    for (i, d) in v.iter().enumerate() {
+        t.add(d[0], d[1] > limit);
+        if let (Some(m), Some(h)) = (map.as_deref_mut(), heat) {
+            m[3 * i..3 * i + 3].copy_from_slice(&h.color_of_bin(bin_of(d[0])));
+        }
+    }
+}

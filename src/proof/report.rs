@@ -1,0 +1,136 @@
+//! The result of a `proof` run as plain structs, and its text table; JSON
+//! goes through [`crate::report::write_json`].
+
+use std::io::{self, Write};
+
+use serde::Serialize;
+
+use super::stats::DeltaStats;
+use crate::icc::RenderingIntent;
+use crate::report::table::{Align, Table, Tone};
+
+/// Where the profile describing an image's pixels came from.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum ProfileSource {
+    /// The ICC profile embedded in the file.
+    Embedded,
+    /// None embedded: the `--screen` profile is assumed.
+    Assumed,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct ImageReport {
+    pub input: String,
+    pub output: String,
+    pub delta_map: Option<String>,
+    pub legend: Option<String>,
+    pub width: u32,
+    pub height: u32,
+    pub bits: u8,
+    /// "rgb" or "grey" (of the input; proofs are always RGB).
+    pub channels: &'static str,
+    pub alpha: bool,
+    /// The profile the input pixels were read in.
+    pub profile: String,
+    pub profile_source: ProfileSource,
+    pub stats: DeltaStats,
+    /// p95 ΔE00 within the tolerance.
+    pub within_tolerance: bool,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct ProofReport {
+    pub screen: String,
+    pub press: String,
+    pub intent: RenderingIntent,
+    pub bpc: bool,
+    pub paper_white: bool,
+    pub tolerance: f64,
+    pub gamut_test: String,
+    pub notes: Vec<String>,
+    pub images: Vec<ImageReport>,
+}
+
+fn f(v: f64, places: usize) -> String {
+    format!("{v:.places$}")
+}
+
+fn pct(share: f64) -> String {
+    format!("{:.1}", share * 100.0)
+}
+
+/// The table: one row per image; shares in percent of pixels.
+pub fn render(w: &mut dyn Write, r: &ProofReport, color: bool) -> io::Result<()> {
+    writeln!(w, "screen   {}", r.screen)?;
+    writeln!(w, "press    {}", r.press)?;
+    writeln!(
+        w,
+        "mapping  {}, BPC {}, shown {}",
+        r.intent,
+        if r.bpc { "on" } else { "off" },
+        if r.paper_white {
+            "on paper white (absolute colorimetric)"
+        } else {
+            "media-relative (relative colorimetric)"
+        }
+    )?;
+    writeln!(w)?;
+    let mut t = Table::new(&[
+        ("image", Align::Left),
+        ("profile", Align::Left),
+        (">1 %", Align::Right),
+        (">2 %", Align::Right),
+        (">3 %", Align::Right),
+        (">5 %", Align::Right),
+        (">10 %", Align::Right),
+        ("mean", Align::Right),
+        ("p50", Align::Right),
+        ("p95", Align::Right),
+        ("p99", Align::Right),
+        ("max", Align::Right),
+        ("out of gamut %", Align::Right),
+    ]);
+    for i in &r.images {
+        let s = &i.stats;
+        let plain = |x: String| (x, Tone::Plain);
+        let profile = match i.profile_source {
+            ProfileSource::Embedded => "embedded".to_string(),
+            ProfileSource::Assumed => format!("{} (assumed)", i.profile),
+        };
+        t.row(vec![
+            plain(i.input.clone()),
+            plain(profile),
+            plain(pct(s.share_above.above_1)),
+            plain(pct(s.share_above.above_2)),
+            plain(pct(s.share_above.above_3)),
+            plain(pct(s.share_above.above_5)),
+            plain(pct(s.share_above.above_10)),
+            plain(f(s.mean, 2)),
+            plain(f(s.p50, 2)),
+            (f(s.p95, 2), if i.within_tolerance { Tone::Good } else { Tone::Bad }),
+            plain(f(s.p99, 2)),
+            plain(f(s.max, 2)),
+            plain(pct(s.outside_gamut)),
+        ]);
+    }
+    t.write(w, color)?;
+    writeln!(w)?;
+    writeln!(
+        w,
+        "ΔE00 is CIEDE2000 between each pixel and its print; tolerance (p95) {:.2}",
+        r.tolerance
+    )?;
+    writeln!(w, "gamut test: {}", r.gamut_test)?;
+    for i in &r.images {
+        write!(w, "{} → {}", i.input, i.output)?;
+        if let Some(m) = &i.delta_map {
+            write!(w, ", map {m}")?;
+        }
+        writeln!(w)?;
+    }
+    for n in &r.notes {
+        writeln!(w, "note: {n}")?;
+    }
+    Ok(())
+}
