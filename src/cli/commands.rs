@@ -38,6 +38,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<Outcome, Error> {
         Command::Profiles(a) => run_profiles(a, out),
         Command::Proof(a) => super::proof::run_proof(a, out),
         Command::Gamut(a) => super::gamut::run_gamut(a, out),
+        Command::Repair(a) => super::repair::run_repair(a, out),
         Command::BuildPress(a) => run_build_press(a),
     }
 }
@@ -47,6 +48,7 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         return Err(format!("--tolerance must be a ΔE00 of 0 or more, not {}", a.tolerance).into());
     }
     // The plan: everything is read and checked before any output.
+    let survival = a.survival.options()?;
     let palette = Palette::read(&a.palette)?;
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
@@ -63,16 +65,7 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         super::GamutTestArg::RoundTrip => None,
     };
     let r = check_against(&palette, &screen, &press, opts, press_gamut.as_ref())?;
-    if a.json {
-        report::write_json(out, &r)?;
-    } else {
-        report::render_check(out, &r, use_color())?;
-    }
-    Ok(if a.strict && r.summary.beyond_tolerance > 0 {
-        Outcome::BeyondTolerance
-    } else {
-        Outcome::Done
-    })
+    super::repair::finish_check(&r, &survival, a.json, a.strict, use_color(), out)
 }
 
 fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {

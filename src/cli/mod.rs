@@ -4,6 +4,7 @@
 mod commands;
 mod gamut;
 mod proof;
+pub mod repair;
 
 use std::path::PathBuf;
 
@@ -38,6 +39,8 @@ pub enum Command {
     Proof(proof::ProofArgs),
     /// Gamut of each profile in CIELAB: volume, lightness range, chroma per hue, coverage of each pair, meshes.
     Gamut(GamutArgs),
+    /// Propose the nearest palette that prints: inside the press gamut, classes kept apart, order kept.
+    Repair(repair::RepairArgs),
     /// Maintainers: rebuild a built-in press profile from its printing model.
     #[command(hide = true)]
     BuildPress(BuildPressArgs),
@@ -94,12 +97,14 @@ pub struct CheckArgs {
     /// Write JSON instead of a table.
     #[arg(long)]
     pub json: bool,
-    /// Exit with code 1 when any colour is beyond the tolerance.
+    /// Exit with code 1 when any colour is beyond the tolerance, or a separation, order or CVD check fails.
     #[arg(long)]
     pub strict: bool,
     /// How "in gamut" is decided: inside the press gamut's boundary, or by a CIELAB → press → CIELAB round trip.
     #[arg(long, value_enum, default_value = "boundary")]
     pub gamut_test: GamutTestArg,
+    #[command(flatten)]
+    pub survival: repair::SurvivalArgs,
 }
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]

@@ -9,6 +9,7 @@
 //!   CIELAB relative to any other white gets its own name.
 
 pub mod css;
+pub mod cvd;
 pub mod delta;
 pub mod spaces;
 

@@ -2,6 +2,7 @@
 //! Every renderer writes to `impl Write` and is deterministic (fixed
 //! precision, stable order).
 
+pub mod survival;
 pub mod table;
 
 use std::io::{self, Write};

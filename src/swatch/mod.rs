@@ -2,6 +2,10 @@
 //! entries in file order, and the analyses over them.
 
 pub mod check;
+pub mod order;
+pub mod repair;
+pub mod separation;
+pub mod survival;
 
 use std::path::Path;
 

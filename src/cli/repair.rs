@@ -1,0 +1,249 @@
+//! `inkfit repair` and the palette-survival options shared with
+//! `inkfit check` (scheme, separation floor, minimum step, deficiencies).
+
+use std::io::Write;
+use std::path::PathBuf;
+
+use clap::{Args, ValueEnum};
+
+use super::commands::{Error, Outcome};
+use super::{IntentArg, ProfileArgs};
+use crate::color::cvd::Deficiency;
+use crate::icc::transform::PressMapping;
+use crate::icc::IccProfile;
+use crate::report::table::{Align, Table, Tone};
+use crate::swatch::check::CheckReport;
+use crate::swatch::order::Scheme;
+use crate::swatch::repair::{repair, write_palette, RepairOptions, RepairReport};
+use crate::swatch::survival::{analyse_check, CheckWithSurvival, SurvivalOptions};
+use crate::swatch::{Format, Palette};
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum SchemeArg {
+    Qualitative,
+    Sequential,
+    Diverging,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum CvdArg {
+    Protan,
+    Deutan,
+    Tritan,
+}
+
+#[derive(Args, Debug, Clone)]
+pub struct SurvivalArgs {
+    /// Kind of palette: qualitative classes, a sequential scale (file order), or diverging (two arms from the middle entry).
+    #[arg(long, value_enum, default_value = "qualitative")]
+    pub scheme: SchemeArg,
+    /// Smallest printed ΔE00 between any two entries. The default 10 is a rule of thumb for map classes told apart at a glance, not a standard.
+    #[arg(long, value_name = "ΔE00", default_value_t = crate::swatch::separation::DEFAULT_MIN_SEPARATION)]
+    pub min_separation: f64,
+    /// Smallest ΔE00 between neighbouring steps of a sequential or diverging scheme (a rule of thumb).
+    #[arg(long, value_name = "ΔE00", default_value_t = crate::swatch::order::DEFAULT_MIN_STEP)]
+    pub min_step: f64,
+    /// Colour-vision deficiencies to simulate on the printed colours, comma-separated.
+    #[arg(long, value_enum, value_delimiter = ',', value_name = "LIST")]
+    pub cvd: Vec<CvdArg>,
+    /// Severity of the simulated deficiencies, 0 (normal vision) to 1 (dichromacy).
+    #[arg(long, value_name = "0..1", default_value_t = 1.0)]
+    pub cvd_severity: f64,
+}
+
+impl SurvivalArgs {
+    pub fn options(&self) -> Result<SurvivalOptions, Error> {
+        let o = SurvivalOptions {
+            scheme: match self.scheme {
+                SchemeArg::Qualitative => Scheme::Qualitative,
+                SchemeArg::Sequential => Scheme::Sequential,
+                SchemeArg::Diverging => Scheme::Diverging,
+            },
+            min_separation: self.min_separation,
+            min_step: self.min_step,
+            cvd: self
+                .cvd
+                .iter()
+                .map(|c| match c {
+                    CvdArg::Protan => Deficiency::Protan,
+                    CvdArg::Deutan => Deficiency::Deutan,
+                    CvdArg::Tritan => Deficiency::Tritan,
+                })
+                .collect(),
+            cvd_severity: self.cvd_severity,
+        };
+        o.validate()?;
+        Ok(o)
+    }
+}
+
+/// Renders `check` with its survival section; the outcome under `--strict`.
+pub fn finish_check(
+    r: &CheckReport,
+    opts: &SurvivalOptions,
+    json: bool,
+    strict: bool,
+    color: bool,
+    out: &mut dyn Write,
+) -> Result<Outcome, Error> {
+    let s = analyse_check(r, opts);
+    if json {
+        crate::report::write_json(out, &CheckWithSurvival { check: r, survival: &s })?;
+    } else {
+        crate::report::render_check(out, r, color)?;
+        let names: Vec<String> = r.entries.iter().map(|e| e.name.clone()).collect();
+        crate::report::survival::render_survival(out, &s, &names, color)?;
+    }
+    Ok(if strict && (r.summary.beyond_tolerance > 0 || !s.passes) {
+        Outcome::BeyondTolerance
+    } else {
+        Outcome::Done
+    })
+}
+
+#[derive(Args, Debug)]
+pub struct RepairArgs {
+    /// Palette file (.csv, .json or plain text); the repaired palette is written in the same format.
+    pub palette: PathBuf,
+    /// Where to write the repaired palette.
+    #[arg(long, value_name = "FILE")]
+    pub out: PathBuf,
+    #[command(flatten)]
+    pub profiles: ProfileArgs,
+    /// Rendering intent from screen to press.
+    #[arg(long, value_enum, default_value = "relative")]
+    pub intent: IntentArg,
+    /// Turn black point compensation off (it is on by default).
+    #[arg(long)]
+    pub no_bpc: bool,
+    #[command(flatten)]
+    pub survival: SurvivalArgs,
+    /// Write the report as JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+    /// Exit with code 1 when some constraint could not be met.
+    #[arg(long)]
+    pub strict: bool,
+}
+
+/// Gradient steps per penalty weight.
+const ITERATIONS: usize = 40;
+
+pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
+    // The plan: options, palette, profiles and gamut before any work.
+    let sopts = a.survival.options()?;
+    let palette = Palette::read(&a.palette)?;
+    let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
+    let press = IccProfile::load(&a.profiles.press)?.require_press()?;
+    let gamut = crate::gamut::Gamut::of_profile(&press, Default::default())?;
+    let opts = RepairOptions {
+        survival: sopts,
+        mapping: PressMapping {
+            intent: a.intent.into(),
+            bpc: !a.no_bpc,
+            paper_white: false,
+        },
+        iterations: ITERATIONS,
+    };
+    let (r, _, _) = repair(&palette, &screen, &press, &gamut, &opts)?;
+    let format = Format::of_path(&a.palette);
+    crate::io::write_atomic(&a.out, |w| write_palette(w, format, &r))
+        .map_err(|e| format!("cannot write '{}': {e}", a.out.display()))?;
+    if a.json {
+        crate::report::write_json(out, &r)?;
+    } else {
+        render_repair(out, &r, &a.out.display().to_string())?;
+    }
+    Ok(if a.strict && !r.all_met() {
+        Outcome::BeyondTolerance
+    } else {
+        Outcome::Done
+    })
+}
+
+fn f(v: f64, places: usize) -> String {
+    let s = format!("{v:.places$}");
+    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
+        s[1..].to_string()
+    } else {
+        s
+    }
+}
+
+fn lab3(v: [f64; 3]) -> String {
+    format!("{} {} {}", f(v[0], 1), f(v[1], 1), f(v[2], 1))
+}
+
+/// The original → repaired table and what still fails.
+pub fn render_repair(w: &mut dyn Write, r: &RepairReport, out_name: &str) -> std::io::Result<()> {
+    writeln!(w, "palette  {} → {}", r.palette, out_name)?;
+    writeln!(w, "screen   {}   press {}", r.screen, r.press)?;
+    writeln!(w, "method   {}", r.method)?;
+    writeln!(w)?;
+    if r.unchanged {
+        writeln!(
+            w,
+            "already printable: every colour inside the press gamut and every check holds; written unchanged"
+        )?;
+        writeln!(w)?;
+    }
+    let mut t = Table::new(&[
+        ("#", Align::Right),
+        ("name", Align::Left),
+        ("original", Align::Left),
+        ("repaired", Align::Left),
+        ("ΔE00 moved", Align::Right),
+        ("screen L* a* b*", Align::Right),
+        ("press CMYK %", Align::Right),
+        ("printed L* a* b*", Align::Right),
+    ]);
+    for (i, e) in r.entries.iter().enumerate() {
+        t.row(vec![
+            ((i + 1).to_string(), Tone::Plain),
+            (e.name.clone(), Tone::Plain),
+            (e.original.clone(), Tone::Plain),
+            (
+                if e.changed {
+                    e.repaired.clone()
+                } else {
+                    "(unchanged)".to_string()
+                },
+                Tone::Plain,
+            ),
+            (f(e.moved, 2), Tone::Plain),
+            (lab3(e.repaired_screen_lab), Tone::Plain),
+            (
+                format!(
+                    "{} {} {} {}",
+                    f(e.press_cmyk[0], 0),
+                    f(e.press_cmyk[1], 0),
+                    f(e.press_cmyk[2], 0),
+                    f(e.press_cmyk[3], 0)
+                ),
+                Tone::Plain,
+            ),
+            (lab3(e.printed_lab), Tone::Plain),
+        ]);
+    }
+    t.write(w, false)?;
+    writeln!(w)?;
+    writeln!(
+        w,
+        "closest printed pair ΔE00: before {}, after {} (floor {})",
+        f(r.before.separation.min_print, 2),
+        f(r.after.separation.min_print, 2),
+        f(r.after.separation.min_separation, 1)
+    )?;
+    if r.all_met() {
+        writeln!(w, "every constraint holds")
+    } else {
+        writeln!(
+            w,
+            "could not meet every constraint; this is the best compromise found. Still failing:"
+        )?;
+        for u in &r.unmet {
+            writeln!(w, "  - {u}")?;
+        }
+        Ok(())
+    }
+}

@@ -1,0 +1,188 @@
+//! Text rendering of the palette-survival section of `inkfit check`:
+//! collapsed pairs first, then separation, order and colour-vision results.
+
+use std::io::{self, Write};
+
+use super::table::{Align, Table, Tone};
+use crate::swatch::separation::FlaggedPair;
+use crate::swatch::survival::Survival;
+
+fn f(v: f64, places: usize) -> String {
+    let s = format!("{v:.places$}");
+    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
+        s[1..].to_string()
+    } else {
+        s
+    }
+}
+
+fn why(p: &FlaggedPair, floor: f64) -> String {
+    match (p.below_floor, p.lost_half) {
+        (true, true) => format!("below {} and lost over half", f(floor, 1)),
+        (true, false) => format!("below {}", f(floor, 1)),
+        _ => "lost over half".to_string(),
+    }
+}
+
+fn pair_table(w: &mut dyn Write, pairs: &[FlaggedPair], floor: f64, color: bool) -> io::Result<()> {
+    let mut t = Table::new(&[
+        ("pair", Align::Left),
+        ("names", Align::Left),
+        ("screen", Align::Right),
+        ("print", Align::Right),
+        ("why", Align::Left),
+    ]);
+    for p in pairs {
+        t.row(vec![
+            (format!("{}–{}", p.a, p.b), Tone::Plain),
+            (format!("{} / {}", p.a_name, p.b_name), Tone::Plain),
+            (f(p.screen, 2), Tone::Plain),
+            (f(p.print, 2), if p.below_floor { Tone::Bad } else { Tone::Plain }),
+            (why(p, floor), Tone::Bad),
+        ]);
+    }
+    t.write(w, color)
+}
+
+/// The section after the per-colour table.
+pub fn render_survival(w: &mut dyn Write, s: &Survival, names: &[String], color: bool) -> io::Result<()> {
+    let sep = &s.separation;
+    let name = |i: usize| names.get(i.wrapping_sub(1)).map_or("?", |n| n.as_str());
+    let pair_words = |p: Option<[usize; 2]>| p.map_or(String::new(), |[a, b]| format!(" ({} / {})", name(a), name(b)));
+    writeln!(w)?;
+    writeln!(
+        w,
+        "separation  {} scheme, floor ΔE00 {} between every pair (a rule of thumb for classes told apart at a glance)",
+        s.scheme,
+        f(sep.min_separation, 1)
+    )?;
+    let collapsed: Vec<FlaggedPair> = sep.flagged.iter().filter(|p| p.below_floor).cloned().collect();
+    if collapsed.is_empty() {
+        writeln!(w, "  no pair collapses in print")?;
+    } else {
+        writeln!(
+            w,
+            "  {} pair{} COLLAPSE in print:",
+            collapsed.len(),
+            if collapsed.len() == 1 { "" } else { "s" }
+        )?;
+        pair_table(w, &collapsed, sep.min_separation, color)?;
+    }
+    let halved: Vec<FlaggedPair> = sep.flagged.iter().filter(|p| !p.below_floor).cloned().collect();
+    if !halved.is_empty() {
+        writeln!(w, "  still above the floor but lost over half their screen difference:")?;
+        pair_table(w, &halved, sep.min_separation, color)?;
+    }
+    writeln!(
+        w,
+        "  closest pair on screen ΔE00 {}{}, in print {}{}",
+        f(sep.min_screen, 2),
+        pair_words(sep.min_screen_pair),
+        f(sep.min_print, 2),
+        pair_words(sep.min_print_pair)
+    )?;
+    if let Some(o) = &s.order {
+        writeln!(w)?;
+        writeln!(
+            w,
+            "order       lightness along {}; smallest step ΔE00 {}",
+            o.arms
+                .iter()
+                .map(|a| format!(
+                    "{} arm {} ({})",
+                    a.arm,
+                    a.direction,
+                    a.entries.iter().map(|e| e.to_string()).collect::<Vec<_>>().join("→")
+                ))
+                .collect::<Vec<_>>()
+                .join(", "),
+            f(o.min_step, 1)
+        )?;
+        writeln!(
+            w,
+            "  monotonic on screen: {}, in print: {}; unevenness (largest / smallest step) screen {}, print {}",
+            if o.monotonic_screen { "yes" } else { "NO" },
+            if o.monotonic_print { "yes" } else { "NO" },
+            o.unevenness_screen.map_or("-".to_string(), |v| f(v, 2)),
+            o.unevenness_print.map_or("-".to_string(), |v| f(v, 2)),
+        )?;
+        let mut t = Table::new(&[
+            ("arm", Align::Left),
+            ("step", Align::Left),
+            ("screen ΔE00", Align::Right),
+            ("print ΔE00", Align::Right),
+            ("screen ΔL*", Align::Right),
+            ("print ΔL*", Align::Right),
+            ("problem", Align::Left),
+        ]);
+        for st in &o.steps {
+            let mut p = Vec::new();
+            if st.reverses_screen {
+                p.push("reverses on screen");
+            }
+            if st.reverses_print {
+                p.push("reverses in print");
+            }
+            if st.too_small_screen {
+                p.push("small on screen");
+            }
+            if st.too_small_print {
+                p.push("small in print");
+            }
+            t.row(vec![
+                (st.arm.to_string(), Tone::Plain),
+                (format!("{}→{}", st.from, st.to), Tone::Plain),
+                (f(st.screen, 2), Tone::Plain),
+                (f(st.print, 2), if st.too_small_print { Tone::Bad } else { Tone::Plain }),
+                (f(st.screen_dl, 2), Tone::Plain),
+                (
+                    f(st.print_dl, 2),
+                    if st.reverses_print { Tone::Bad } else { Tone::Plain },
+                ),
+                (p.join(", "), Tone::Bad),
+            ]);
+        }
+        t.write(w, color)?;
+        if let Some(sym) = &o.symmetry {
+            writeln!(
+                w,
+                "  symmetry: matching printed steps differ by at most ΔE00 {}; arm totals low {} / high {}",
+                f(sym.max_difference, 2),
+                f(sym.low_total, 2),
+                f(sym.high_total, 2)
+            )?;
+        }
+    }
+    if let Some(c) = &s.cvd {
+        writeln!(w)?;
+        writeln!(
+            w,
+            "colour-vision deficiency  printed colours simulated (Machado, Oliveira & Fernandes 2009, in linear sRGB)"
+        )?;
+        for (d, r) in c.iter() {
+            writeln!(
+                w,
+                "  {d} (severity {}): closest pair ΔE00 {} on screen, {} in print; {} pair{} flagged",
+                f(r.severity, 2),
+                f(r.min_screen, 2),
+                f(r.min_print, 2),
+                r.flagged.len(),
+                if r.flagged.len() == 1 { "" } else { "s" }
+            )?;
+            if !r.flagged.is_empty() {
+                pair_table(w, &r.flagged, sep.min_separation, color)?;
+            }
+        }
+    }
+    writeln!(w)?;
+    if s.passes {
+        writeln!(
+            w,
+            "the palette survives print: separation{} hold",
+            if s.order.is_some() { ", order" } else { "" }
+        )?;
+    } else {
+        writeln!(w, "the palette does not survive print: {}", s.problems.join("; "))?;
+    }
+    Ok(())
+}

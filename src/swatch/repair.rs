@@ -1,0 +1,535 @@
+//! Palette repair: the nearest palette (in CIEDE2000 to the designer's
+//! colours) whose colours lie inside the press gamut and that keeps the
+//! separation floor, the lightness order of ordered schemes and, when asked,
+//! the separation under colour-vision deficiencies.
+//!
+//! Method: a quadratic penalty method solved by projected gradient descent
+//! over all entries jointly, in CIELAB D50.
+//! - Variables: the screen colour `x_i` (CIELAB) of every entry; its printed
+//!   colour is `p_i = P(x_i)`, the press's CIELAB → CMYK (chosen intent and
+//!   BPC) → CIELAB as printed, evaluated through lcms2.
+//! - Objective: `Σ ΔE00(x_i, o_i)² + w · Σ max(0, c)²` over the constraint
+//!   violations `c` (all in ΔE00 or L* units, each with a safety margin of
+//!   [`MARGIN`] so the result survives 8-bit rounding): pair floors on `p`
+//!   (and on the simulated `p` for each deficiency), "no pair loses more than
+//!   half its screen difference", and for ordered schemes the minimum step
+//!   and a monotonic L* (at least 1 L* per step) on `x` and on `p`.
+//! - Constraint: every `x_i` stays inside the press gamut solid
+//!   ([`Gamut::contains`]); after each step a colour outside is projected
+//!   back along the segment to its own printed colour (printable by
+//!   construction) by bisection on the inside test.
+//! - Gradient by central differences (h = 0.01 CIELAB units), each entry's
+//!   part from the terms that involve it; backtracking line search; the
+//!   penalty weight `w` grows 1, 10, 100, 1000, 10000.
+//!
+//! The penalty method returns the best compromise when the constraints
+//! cannot all be met; the result is then checked again with the full
+//! pipeline, and every check that still fails is reported.
+
+use std::io::{self, Write};
+
+use lcms2::{PixelFormat, Transform};
+use serde::Serialize;
+
+use super::check::{check_against, CheckOptions, CheckReport};
+use super::order::{arms, direction};
+use super::survival::{analyse_check, Survival, SurvivalError, SurvivalOptions};
+use super::{Entry, Format, Palette};
+use crate::color::css::ColorInput;
+use crate::color::cvd::Simulator;
+use crate::color::delta::delta_e00;
+use crate::color::LabD50;
+use crate::gamut::Gamut;
+use crate::icc::transform::{lab_d50_profile, PressMapping, PressTransforms};
+use crate::icc::{IccError, IccProfile, RenderingIntent};
+
+/// Extra room kept above each floor, in ΔE00 (or L* for the order terms).
+pub const MARGIN: f64 = 0.5;
+
+/// A colour moved by less than this ΔE00 keeps its original text.
+pub const UNCHANGED_BELOW: f64 = 0.05;
+
+const H: f64 = 0.01;
+
+pub const METHOD: &str =
+    "quadratic penalty method, projected gradient descent over all entries jointly in CIELAB D50; \
+gamut as a hard constraint (projection along the segment to the printed colour)";
+
+#[derive(Debug, thiserror::Error)]
+pub enum RepairError {
+    #[error(transparent)]
+    Icc(#[from] IccError),
+    #[error(transparent)]
+    Options(#[from] SurvivalError),
+    #[error("screen profile '{name}': cannot build a CIELAB → screen transform")]
+    ScreenTransform { name: String },
+}
+
+#[derive(Clone, Debug, PartialEq)]
+pub struct RepairOptions {
+    pub survival: SurvivalOptions,
+    pub mapping: PressMapping,
+    /// Gradient steps per penalty weight.
+    pub iterations: usize,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct RepairedEntry {
+    pub name: String,
+    pub original: String,
+    pub repaired: String,
+    pub changed: bool,
+    /// ΔE00 from the original to the repaired screen colour.
+    pub moved: f64,
+    pub original_screen_lab: [f64; 3],
+    pub repaired_screen_lab: [f64; 3],
+    pub press_cmyk: [f64; 4],
+    pub printed_lab: [f64; 3],
+    pub in_gamut: bool,
+}
+
+#[derive(Clone, Debug, Serialize)]
+pub struct RepairReport {
+    pub palette: String,
+    pub screen: String,
+    pub press: String,
+    pub method: &'static str,
+    /// True when the palette already passed and comes back as it was.
+    pub unchanged: bool,
+    pub entries: Vec<RepairedEntry>,
+    pub before: Survival,
+    pub after: Survival,
+    /// What still fails after the repair (empty when everything holds).
+    pub unmet: Vec<String>,
+}
+
+impl RepairReport {
+    pub fn all_met(&self) -> bool {
+        self.unmet.is_empty()
+    }
+}
+
+fn r2(v: f64) -> f64 {
+    let r = (v * 100.0).round() / 100.0;
+    if r == 0.0 {
+        0.0
+    } else {
+        r
+    }
+}
+
+fn hinge2(c: f64) -> f64 {
+    if c > 0.0 {
+        c * c
+    } else {
+        0.0
+    }
+}
+
+struct Problem<'a> {
+    t: &'a PressTransforms,
+    gamut: &'a Gamut,
+    o: Vec<LabD50>,
+    /// Arms of an ordered scheme with their L* direction (+1 lighter).
+    arms: Vec<(f64, Vec<usize>)>,
+    sims: Vec<Simulator>,
+    floor: f64,
+    min_step: f64,
+    w: f64,
+}
+
+struct State {
+    x: Vec<LabD50>,
+    p: Vec<LabD50>,
+    /// Per simulator: simulated x and p.
+    sx: Vec<Vec<LabD50>>,
+    sp: Vec<Vec<LabD50>>,
+}
+
+impl Problem<'_> {
+    fn print(&self, x: &[LabD50]) -> Vec<LabD50> {
+        self.t.printed_lab(&self.t.lab_to_press(x))
+    }
+
+    fn state(&self, x: Vec<LabD50>) -> State {
+        let p = self.print(&x);
+        let sx = self
+            .sims
+            .iter()
+            .map(|s| x.iter().map(|&l| s.lab(l)).collect())
+            .collect();
+        let sp = self
+            .sims
+            .iter()
+            .map(|s| p.iter().map(|&l| s.lab(l)).collect())
+            .collect();
+        State { x, p, sx, sp }
+    }
+
+    /// Penalty of pair (i, j) given both sides' values.
+    #[allow(clippy::too_many_arguments)]
+    fn pair(
+        &self,
+        xi: LabD50,
+        pi: LabD50,
+        sxi: &[LabD50],
+        spi: &[LabD50],
+        xj: LabD50,
+        pj: LabD50,
+        sxj: &[LabD50],
+        spj: &[LabD50],
+    ) -> f64 {
+        let dp = delta_e00(pi, pj);
+        let mut v = hinge2(self.floor + MARGIN - dp) + hinge2(0.5 * delta_e00(xi, xj) + MARGIN - dp);
+        for k in 0..self.sims.len() {
+            let d = delta_e00(spi[k], spj[k]);
+            v += hinge2(self.floor + MARGIN - d) + hinge2(0.5 * delta_e00(sxi[k], sxj[k]) + MARGIN - d);
+        }
+        v
+    }
+
+    /// Penalty of an ordered step a → b along an arm of direction `d`.
+    fn step(&self, d: f64, xa: LabD50, pa: LabD50, xb: LabD50, pb: LabD50) -> f64 {
+        hinge2(self.min_step + MARGIN - delta_e00(pa, pb))
+            + hinge2(self.min_step + MARGIN - delta_e00(xa, xb))
+            + hinge2(1.0 - d * (pb.l - pa.l))
+            + hinge2(1.0 - d * (xb.l - xa.l))
+    }
+
+    fn total(&self, s: &State) -> f64 {
+        let n = s.x.len();
+        let mut close = 0.0;
+        let mut pen = 0.0;
+        for i in 0..n {
+            close += delta_e00(s.x[i], self.o[i]).powi(2);
+            let (sxi, spi) = sim_at(s, i);
+            for j in i + 1..n {
+                let (sxj, spj) = sim_at(s, j);
+                pen += self.pair(s.x[i], s.p[i], &sxi, &spi, s.x[j], s.p[j], &sxj, &spj);
+            }
+        }
+        for (d, arm) in &self.arms {
+            for w in arm.windows(2) {
+                pen += self.step(*d, s.x[w[0]], s.p[w[0]], s.x[w[1]], s.p[w[1]]);
+            }
+        }
+        close + self.w * pen
+    }
+
+    /// The terms of the objective that involve entry `i`, with `x_i` and
+    /// `p_i` replaced.
+    fn local(&self, s: &State, i: usize, xi: LabD50, pi: LabD50) -> f64 {
+        let sxi: Vec<LabD50> = self.sims.iter().map(|m| m.lab(xi)).collect();
+        let spi: Vec<LabD50> = self.sims.iter().map(|m| m.lab(pi)).collect();
+        let mut pen = 0.0;
+        for j in 0..s.x.len() {
+            if j != i {
+                let (sxj, spj) = sim_at(s, j);
+                pen += self.pair(xi, pi, &sxi, &spi, s.x[j], s.p[j], &sxj, &spj);
+            }
+        }
+        let at = |k: usize| if k == i { (xi, pi) } else { (s.x[k], s.p[k]) };
+        for (d, arm) in &self.arms {
+            for w in arm.windows(2) {
+                if w[0] == i || w[1] == i {
+                    let ((xa, pa), (xb, pb)) = (at(w[0]), at(w[1]));
+                    pen += self.step(*d, xa, pa, xb, pb);
+                }
+            }
+        }
+        delta_e00(xi, self.o[i]).powi(2) + self.w * pen
+    }
+
+    fn gradient(&self, s: &State) -> Vec<[f64; 3]> {
+        let n = s.x.len();
+        let mut probes = Vec::with_capacity(6 * n);
+        for x in &s.x {
+            let v = x.to_array();
+            for k in 0..3 {
+                for sign in [1.0, -1.0] {
+                    let mut q = v;
+                    q[k] += sign * H;
+                    probes.push(LabD50::from_array(q));
+                }
+            }
+        }
+        let printed = self.print(&probes);
+        let mut g = vec![[0.0; 3]; n];
+        for (i, gi) in g.iter_mut().enumerate() {
+            for (k, gk) in gi.iter_mut().enumerate() {
+                let a = 6 * i + 2 * k;
+                let fp = self.local(s, i, probes[a], printed[a]);
+                let fm = self.local(s, i, probes[a + 1], printed[a + 1]);
+                *gk = (fp - fm) / (2.0 * H);
+            }
+        }
+        g
+    }
+
+    /// Each colour outside the gamut pulled back along the segment to its
+    /// printed colour, by bisection on the inside test.
+    fn project(&self, x: Vec<LabD50>) -> Vec<LabD50> {
+        let p = self.print(&x);
+        x.into_iter()
+            .zip(p)
+            .map(|(xi, pi)| {
+                if self.gamut.contains(xi) {
+                    return xi;
+                }
+                let lerp = |t: f64| {
+                    LabD50::new(
+                        pi.l + t * (xi.l - pi.l),
+                        pi.a + t * (xi.a - pi.a),
+                        pi.b + t * (xi.b - pi.b),
+                    )
+                };
+                let (mut lo, mut hi) = (0.0, 1.0);
+                for _ in 0..24 {
+                    let mid = 0.5 * (lo + hi);
+                    if self.gamut.contains(lerp(mid)) {
+                        lo = mid;
+                    } else {
+                        hi = mid;
+                    }
+                }
+                lerp(lo)
+            })
+            .collect()
+    }
+}
+
+fn sim_at(s: &State, i: usize) -> (Vec<LabD50>, Vec<LabD50>) {
+    (s.sx.iter().map(|v| v[i]).collect(), s.sp.iter().map(|v| v[i]).collect())
+}
+
+/// Runs the optimisation from the original screen colours `o`.
+fn optimise(mut pb: Problem<'_>, iterations: usize) -> Vec<LabD50> {
+    let start = pb.project(pb.o.clone());
+    let mut s = pb.state(start);
+    for w in [1.0, 10.0, 100.0, 1000.0, 10000.0] {
+        pb.w = w;
+        let mut f = pb.total(&s);
+        let mut step = 2.0;
+        for _ in 0..iterations {
+            let g = pb.gradient(&s);
+            let gmax = g.iter().flat_map(|v| v.iter()).fold(0.0f64, |m, v| m.max(v.abs()));
+            if gmax < 1e-9 {
+                break;
+            }
+            let mut accepted = false;
+            for _ in 0..14 {
+                let alpha = step / gmax;
+                let trial: Vec<LabD50> =
+                    s.x.iter()
+                        .zip(&g)
+                        .map(|(x, g)| LabD50::new(x.l - alpha * g[0], x.a - alpha * g[1], x.b - alpha * g[2]))
+                        .collect();
+                let ts = pb.state(pb.project(trial));
+                let ft = pb.total(&ts);
+                if ft < f {
+                    s = ts;
+                    f = ft;
+                    step = (step * 1.5).min(8.0);
+                    accepted = true;
+                    break;
+                }
+                step *= 0.5;
+            }
+            if !accepted {
+                break;
+            }
+        }
+    }
+    s.x
+}
+
+fn to_hex(rgb: [f64; 3]) -> String {
+    let c = |v: f64| (v.clamp(0.0, 1.0) * 255.0).round() as u8;
+    format!("#{:02x}{:02x}{:02x}", c(rgb[0]), c(rgb[1]), c(rgb[2]))
+}
+
+/// Repairs `palette` for `press` as seen on `screen`; `gamut` is the press
+/// profile's gamut. Returns the report and the repaired palette.
+pub fn repair(
+    palette: &Palette,
+    screen: &IccProfile,
+    press: &IccProfile,
+    gamut: &Gamut,
+    opts: &RepairOptions,
+) -> Result<(RepairReport, Palette, CheckReport), RepairError> {
+    opts.survival.validate()?;
+    let copts = CheckOptions {
+        mapping: opts.mapping,
+        tolerance: super::check::DEFAULT_TOLERANCE,
+    };
+    let before_check = check_against(palette, screen, press, copts, Some(gamut))?;
+    let before = analyse_check(&before_check, &opts.survival);
+    let all_inside = before_check.entries.iter().all(|e| e.in_gamut);
+    let o: Vec<LabD50> = before_check
+        .entries
+        .iter()
+        .map(|e| LabD50::from_array(e.screen_lab))
+        .collect();
+
+    let (repaired, unchanged) = if before.passes && all_inside {
+        (palette.clone(), true)
+    } else {
+        let t = PressTransforms::new(screen, press, opts.mapping)?;
+        let n = o.len();
+        let pb = Problem {
+            t: &t,
+            gamut,
+            arms: arms(opts.survival.scheme, n)
+                .into_iter()
+                .map(|(_, idx)| (direction(&idx, &o), idx))
+                .collect(),
+            o: o.clone(),
+            sims: opts.survival.simulators(),
+            floor: opts.survival.min_separation,
+            min_step: opts.survival.min_step,
+            w: 1.0,
+        };
+        let x = optimise(pb, opts.iterations);
+        let lab = lab_d50_profile();
+        let to_screen: Transform<[f64; 3], [f64; 3]> = Transform::new(
+            &lab,
+            PixelFormat::Lab_DBL,
+            &screen.lcms,
+            PixelFormat::RGB_DBL,
+            RenderingIntent::Relative.to_lcms(),
+        )
+        .map_err(|_| RepairError::ScreenTransform {
+            name: screen.name.clone(),
+        })?;
+        let src: Vec<[f64; 3]> = x.iter().map(|l| l.to_array()).collect();
+        let mut rgb = vec![[0.0; 3]; n];
+        to_screen.transform_pixels(&src, &mut rgb);
+        let entries = palette
+            .entries
+            .iter()
+            .enumerate()
+            .map(|(i, e)| {
+                if delta_e00(x[i], o[i]) < UNCHANGED_BELOW {
+                    return e.clone();
+                }
+                let hex = to_hex(rgb[i]);
+                let c = |k: usize| u8::from_str_radix(&hex[1 + 2 * k..3 + 2 * k], 16).map_or(0.0, |v| v as f64 / 255.0);
+                Entry {
+                    name: e.name.clone(),
+                    input: hex.clone(),
+                    color: ColorInput::ScreenRgb([c(0), c(1), c(2)]),
+                    line: e.line,
+                }
+            })
+            .collect();
+        (
+            Palette {
+                source: palette.source.clone(),
+                entries,
+            },
+            false,
+        )
+    };
+
+    let after_check = check_against(&repaired, screen, press, copts, Some(gamut))?;
+    let after = analyse_check(&after_check, &opts.survival);
+    let mut unmet = after.problems.clone();
+    let outside: Vec<&str> = after_check
+        .entries
+        .iter()
+        .filter(|e| !e.in_gamut)
+        .map(|e| e.name.as_str())
+        .collect();
+    if !outside.is_empty() {
+        unmet.push(format!("outside the press gamut: {}", outside.join(", ")));
+    }
+    let entries = palette
+        .entries
+        .iter()
+        .zip(&repaired.entries)
+        .zip(before_check.entries.iter().zip(&after_check.entries))
+        .map(|((orig, rep), (b, a))| RepairedEntry {
+            name: orig.name.clone(),
+            original: orig.input.clone(),
+            repaired: rep.input.clone(),
+            changed: orig.input != rep.input,
+            moved: r2(delta_e00(
+                LabD50::from_array(b.screen_lab),
+                LabD50::from_array(a.screen_lab),
+            )),
+            original_screen_lab: b.screen_lab,
+            repaired_screen_lab: a.screen_lab,
+            press_cmyk: a.press_cmyk,
+            printed_lab: a.proof_lab,
+            in_gamut: a.in_gamut,
+        })
+        .collect();
+    Ok((
+        RepairReport {
+            palette: palette.source.clone(),
+            screen: screen.name.clone(),
+            press: press.name.clone(),
+            method: METHOD,
+            unchanged,
+            entries,
+            before,
+            after,
+            unmet,
+        },
+        repaired,
+        after_check,
+    ))
+}
+
+fn cmyk_css(c: [f64; 4]) -> String {
+    format!("device-cmyk({:.1}% {:.1}% {:.1}% {:.1}%)", c[0], c[1], c[2], c[3])
+}
+
+fn csv_field(s: &str) -> String {
+    if s.contains([',', '"', '\n']) {
+        format!("\"{}\"", s.replace('"', "\"\""))
+    } else {
+        s.to_string()
+    }
+}
+
+/// Writes the repaired palette in `format`: each entry's name, its screen
+/// colour (hex when repaired, the original text when unchanged) and the
+/// press CMYK (percent) it prints with. Files written this way read back
+/// with [`Palette::parse`].
+pub fn write_palette(w: &mut dyn Write, format: Format, r: &RepairReport) -> io::Result<()> {
+    match format {
+        Format::Csv => {
+            writeln!(w, "name,color,press_cmyk")?;
+            for e in &r.entries {
+                writeln!(
+                    w,
+                    "{},{},{}",
+                    csv_field(&e.name),
+                    csv_field(&e.repaired),
+                    csv_field(&cmyk_css(e.press_cmyk))
+                )?;
+            }
+        }
+        Format::Json => {
+            let items: Vec<serde_json::Value> = r
+                .entries
+                .iter()
+                .map(|e| serde_json::json!({"name": e.name, "color": e.repaired, "press_cmyk": e.press_cmyk}))
+                .collect();
+            serde_json::to_writer_pretty(&mut *w, &items)?;
+            writeln!(w)?;
+        }
+        Format::Text => {
+            writeln!(
+                w,
+                "# repaired for press {} (screen {}); press CMYK in the comments",
+                r.press, r.screen
+            )?;
+            for e in &r.entries {
+                writeln!(w, "{} {}  # press {}", e.repaired, e.name, cmyk_css(e.press_cmyk))?;
+            }
+        }
+    }
+    Ok(())
+}

@@ -1,0 +1,189 @@
+//! Class separation of a palette: the CIEDE2000 between every pair of
+//! entries on screen and in print, the closest pairs, and the pairs that
+//! collapse in print.
+//!
+//! A pair is flagged when its printed ΔE00 falls below the separation floor,
+//! or when printing loses more than half of its screen difference
+//! (`print < screen / 2`). ΔE00 is CIEDE2000 (CIE 142-2001, as in
+//! [`crate::color::delta::delta_e00`]) on CIELAB D50; values are rounded to
+//! 2 decimals in the result.
+
+use serde::Serialize;
+
+use crate::color::delta::delta_e00;
+use crate::color::LabD50;
+
+/// Default separation floor, ΔE00 10: map classes that must be told apart at
+/// a glance, a rule of thumb (common practice), not a standard.
+pub const DEFAULT_MIN_SEPARATION: f64 = 10.0;
+
+/// Above this many entries only the flagged pairs are listed under `pairs`.
+pub const MAX_ENTRIES_LISTING_ALL_PAIRS: usize = 64;
+
+/// One pair of entries, numbered from 1 in file order.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Pair {
+    pub a: usize,
+    pub b: usize,
+    /// ΔE00 on screen.
+    pub screen: f64,
+    /// ΔE00 as printed.
+    pub print: f64,
+}
+
+/// A pair that does not survive print.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct FlaggedPair {
+    pub a: usize,
+    pub b: usize,
+    pub a_name: String,
+    pub b_name: String,
+    pub screen: f64,
+    pub print: f64,
+    /// Printed ΔE00 below the floor.
+    pub below_floor: bool,
+    /// Printing lost more than half of the screen ΔE00.
+    pub lost_half: bool,
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Separation {
+    pub min_separation: f64,
+    pub min_screen: f64,
+    pub min_print: f64,
+    /// The closest pair on screen and in print, numbered from 1.
+    pub min_screen_pair: Option<[usize; 2]>,
+    pub min_print_pair: Option<[usize; 2]>,
+    /// `"all"` (every pair) or `"flagged"` (palettes of more than 64 entries).
+    pub pairs_listed: &'static str,
+    pub pairs: Vec<Pair>,
+    /// Flagged pairs, smallest printed ΔE00 first.
+    pub flagged: Vec<FlaggedPair>,
+}
+
+pub(crate) fn round2(v: f64) -> f64 {
+    let r = (v * 100.0).round() / 100.0;
+    if r == 0.0 {
+        0.0
+    } else {
+        r
+    }
+}
+
+/// Whether a pair with these differences is flagged: `(below_floor, lost_half)`.
+pub fn pair_flags(screen: f64, print: f64, floor: f64) -> (bool, bool) {
+    (print < floor, print < 0.5 * screen)
+}
+
+/// The separation analysis of `screen` and `print` (same length, file order;
+/// `names` for the flagged list) against the floor `min_separation`.
+pub fn separation(names: &[String], screen: &[LabD50], print: &[LabD50], min_separation: f64) -> Separation {
+    let n = screen.len().min(print.len());
+    let list_all = n <= MAX_ENTRIES_LISTING_ALL_PAIRS;
+    let mut pairs = Vec::new();
+    let mut flagged = Vec::new();
+    let mut min_s: Option<(f64, [usize; 2])> = None;
+    let mut min_p: Option<(f64, [usize; 2])> = None;
+    for i in 0..n {
+        for j in i + 1..n {
+            let s = delta_e00(screen[i], screen[j]);
+            let p = delta_e00(print[i], print[j]);
+            let ids = [i + 1, j + 1];
+            if min_s.is_none_or(|(v, _)| s < v) {
+                min_s = Some((s, ids));
+            }
+            if min_p.is_none_or(|(v, _)| p < v) {
+                min_p = Some((p, ids));
+            }
+            let (below_floor, lost_half) = pair_flags(s, p, min_separation);
+            let pair = Pair {
+                a: i + 1,
+                b: j + 1,
+                screen: round2(s),
+                print: round2(p),
+            };
+            if below_floor || lost_half {
+                flagged.push(FlaggedPair {
+                    a: i + 1,
+                    b: j + 1,
+                    a_name: names.get(i).cloned().unwrap_or_default(),
+                    b_name: names.get(j).cloned().unwrap_or_default(),
+                    screen: pair.screen,
+                    print: pair.print,
+                    below_floor,
+                    lost_half,
+                });
+                if !list_all {
+                    pairs.push(pair.clone());
+                }
+            }
+            if list_all {
+                pairs.push(pair);
+            }
+        }
+    }
+    flagged.sort_by(|x, y| x.print.total_cmp(&y.print).then((x.a, x.b).cmp(&(y.a, y.b))));
+    Separation {
+        min_separation,
+        min_screen: min_s.map_or(0.0, |(v, _)| round2(v)),
+        min_print: min_p.map_or(0.0, |(v, _)| round2(v)),
+        min_screen_pair: min_s.map(|(_, p)| p),
+        min_print_pair: min_p.map(|(_, p)| p),
+        pairs_listed: if list_all { "all" } else { "flagged" },
+        pairs,
+        flagged,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn names(n: usize) -> Vec<String> {
+        (1..=n).map(|i| format!("c{i}")).collect()
+    }
+
+    #[test]
+    fn flags_collapsed_and_halved_pairs() {
+        // Pure lightness differences: for ΔL only, CIEDE2000 is
+        // ΔL / S_L with S_L = 1 + 0.015 (L̄−50)² / sqrt(20 + (L̄−50)²)
+        // (Sharma, Wu, Dalal 2005, eq. 10); at L̄ = 50, S_L = 1, so the
+        // ΔE00 equals the L* difference, computed here by hand.
+        let screen = [
+            LabD50::new(40.0, 0.0, 0.0),
+            LabD50::new(60.0, 0.0, 0.0),
+            LabD50::new(45.0, 0.0, 0.0),
+        ];
+        let print = [
+            LabD50::new(46.0, 0.0, 0.0),
+            LabD50::new(54.0, 0.0, 0.0),
+            LabD50::new(40.0, 0.0, 0.0),
+        ];
+        let s = separation(&names(3), &screen, &print, 10.0);
+        assert_eq!(s.pairs.len(), 3);
+        assert_eq!(
+            s.pairs[0],
+            Pair {
+                a: 1,
+                b: 2,
+                screen: 20.0,
+                print: 8.0
+            }
+        );
+        // Pair 1–2: 20 on screen, 8 in print: below 10 and lost more than half.
+        let f = s.flagged.iter().find(|f| (f.a, f.b) == (1, 2)).unwrap();
+        assert!(f.below_floor && f.lost_half);
+        assert_eq!(s.min_print_pair, Some([1, 3]));
+        assert!(s.flagged.windows(2).all(|w| w[0].print <= w[1].print));
+    }
+
+    #[test]
+    fn lists_only_flagged_pairs_for_large_palettes() {
+        let n = MAX_ENTRIES_LISTING_ALL_PAIRS + 1;
+        let lab: Vec<LabD50> = (0..n).map(|i| LabD50::new(i as f64 * 1.5, 0.0, 0.0)).collect();
+        let s = separation(&names(n), &lab, &lab, 10.0);
+        assert_eq!(s.pairs_listed, "flagged");
+        assert_eq!(s.pairs.len(), s.flagged.len());
+        assert!(s.pairs.len() < n * (n - 1) / 2);
+    }
+}

@@ -1,0 +1,257 @@
+//! Will the palette still work in print: class separation, lightness order
+//! and separation under colour-vision deficiencies, over the screen and
+//! printed CIELAB of a palette check.
+
+use serde::Serialize;
+
+use super::check::CheckReport;
+use super::order::{order, Order, Scheme};
+use super::separation::{pair_flags, round2, separation, FlaggedPair, Separation};
+use crate::color::cvd::{Deficiency, Simulator};
+use crate::color::delta::delta_e00;
+use crate::color::LabD50;
+
+/// What to check beyond the per-colour results.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SurvivalOptions {
+    pub scheme: Scheme,
+    /// ΔE00 floor for every pair in print.
+    pub min_separation: f64,
+    /// ΔE00 floor for neighbouring steps of ordered schemes.
+    pub min_step: f64,
+    /// Deficiencies to simulate (each at most once; reported in the order
+    /// protan, deutan, tritan).
+    pub cvd: Vec<Deficiency>,
+    /// 0 (normal vision) to 1 (dichromacy).
+    pub cvd_severity: f64,
+}
+
+impl Default for SurvivalOptions {
+    fn default() -> Self {
+        SurvivalOptions {
+            scheme: Scheme::Qualitative,
+            min_separation: super::separation::DEFAULT_MIN_SEPARATION,
+            min_step: super::order::DEFAULT_MIN_STEP,
+            cvd: Vec::new(),
+            cvd_severity: 1.0,
+        }
+    }
+}
+
+/// Why the options cannot be used.
+#[derive(Debug, thiserror::Error, PartialEq)]
+pub enum SurvivalError {
+    #[error("--min-separation must be a ΔE00 of 0 or more, not {0}")]
+    MinSeparation(f64),
+    #[error("--min-step must be a ΔE00 of 0 or more, not {0}")]
+    MinStep(f64),
+    #[error("--cvd-severity must be between 0 and 1, not {0}")]
+    Severity(f64),
+}
+
+impl SurvivalOptions {
+    pub fn validate(&self) -> Result<(), SurvivalError> {
+        let ok = |v: f64| v.is_finite() && v >= 0.0;
+        if !ok(self.min_separation) {
+            return Err(SurvivalError::MinSeparation(self.min_separation));
+        }
+        if !ok(self.min_step) {
+            return Err(SurvivalError::MinStep(self.min_step));
+        }
+        if !(self.cvd_severity.is_finite() && (0.0..=1.0).contains(&self.cvd_severity)) {
+            return Err(SurvivalError::Severity(self.cvd_severity));
+        }
+        Ok(())
+    }
+
+    /// The simulators asked for, in the fixed order protan, deutan, tritan.
+    pub fn simulators(&self) -> Vec<Simulator> {
+        Deficiency::ALL
+            .into_iter()
+            .filter(|d| self.cvd.contains(d))
+            .filter_map(|d| Simulator::new(d, self.cvd_severity))
+            .collect()
+    }
+}
+
+/// Separation as seen with one deficiency.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct CvdResult {
+    pub severity: f64,
+    /// Simulated CIELAB D50 of each printed colour, in file order.
+    pub simulated_lab: Vec<[f64; 3]>,
+    /// Smallest ΔE00 between simulated screen colours and between simulated
+    /// printed colours.
+    pub min_screen: f64,
+    pub min_print: f64,
+    /// Pairs whose simulated printed ΔE00 is below the floor or lost more
+    /// than half of the simulated screen ΔE00; smallest first.
+    pub flagged: Vec<FlaggedPair>,
+}
+
+/// One object per deficiency asked for.
+#[derive(Clone, Debug, Default, PartialEq, Serialize)]
+pub struct CvdReport {
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub protan: Option<CvdResult>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub deutan: Option<CvdResult>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tritan: Option<CvdResult>,
+}
+
+impl CvdReport {
+    /// The results present, in the order protan, deutan, tritan.
+    pub fn iter(&self) -> impl Iterator<Item = (Deficiency, &CvdResult)> {
+        [
+            (Deficiency::Protan, &self.protan),
+            (Deficiency::Deutan, &self.deutan),
+            (Deficiency::Tritan, &self.tritan),
+        ]
+        .into_iter()
+        .filter_map(|(d, r)| r.as_ref().map(|r| (d, r)))
+    }
+}
+
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Survival {
+    pub scheme: Scheme,
+    pub separation: Separation,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub order: Option<Order>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub cvd: Option<CvdReport>,
+    /// True when separation, order and every deficiency pass.
+    pub passes: bool,
+    /// One sentence per failed check, most important first.
+    pub problems: Vec<String>,
+}
+
+/// CVD separation: simulate both the screen and the printed colours.
+pub fn cvd_separation(sim: &Simulator, names: &[String], screen: &[LabD50], print: &[LabD50], floor: f64) -> CvdResult {
+    let s: Vec<LabD50> = screen.iter().map(|&l| sim.lab(l)).collect();
+    let p: Vec<LabD50> = print.iter().map(|&l| sim.lab(l)).collect();
+    let mut flagged = Vec::new();
+    let (mut min_s, mut min_p) = (f64::INFINITY, f64::INFINITY);
+    for i in 0..p.len() {
+        for j in i + 1..p.len() {
+            let ds = delta_e00(s[i], s[j]);
+            let dp = delta_e00(p[i], p[j]);
+            min_s = min_s.min(ds);
+            min_p = min_p.min(dp);
+            let (below_floor, lost_half) = pair_flags(ds, dp, floor);
+            if below_floor || lost_half {
+                flagged.push(FlaggedPair {
+                    a: i + 1,
+                    b: j + 1,
+                    a_name: names.get(i).cloned().unwrap_or_default(),
+                    b_name: names.get(j).cloned().unwrap_or_default(),
+                    screen: round2(ds),
+                    print: round2(dp),
+                    below_floor,
+                    lost_half,
+                });
+            }
+        }
+    }
+    flagged.sort_by(|x, y| x.print.total_cmp(&y.print).then((x.a, x.b).cmp(&(y.a, y.b))));
+    let fin = |v: f64| if v.is_finite() { round2(v) } else { 0.0 };
+    CvdResult {
+        severity: sim.severity,
+        simulated_lab: p.iter().map(|l| l.to_array().map(round2)).collect(),
+        min_screen: fin(min_s),
+        min_print: fin(min_p),
+        flagged,
+    }
+}
+
+/// The whole analysis over screen and printed CIELAB in file order.
+pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &SurvivalOptions) -> Survival {
+    let sep = separation(names, screen, print, opts.min_separation);
+    let ord = order(opts.scheme, screen, print, opts.min_step);
+    let sims = opts.simulators();
+    let cvd = (!sims.is_empty()).then(|| {
+        let mut r = CvdReport::default();
+        for s in &sims {
+            let res = Some(cvd_separation(s, names, screen, print, opts.min_separation));
+            match s.deficiency {
+                Deficiency::Protan => r.protan = res,
+                Deficiency::Deutan => r.deutan = res,
+                Deficiency::Tritan => r.tritan = res,
+            }
+        }
+        r
+    });
+    let mut problems = Vec::new();
+    if !sep.flagged.is_empty() {
+        let collapsed = sep.flagged.iter().filter(|f| f.below_floor).count();
+        problems.push(format!(
+            "{} pair{} below ΔE00 {} in print, {} losing more than half their screen difference",
+            collapsed,
+            if collapsed == 1 { "" } else { "s" },
+            opts.min_separation,
+            sep.flagged.iter().filter(|f| f.lost_half).count()
+        ));
+    }
+    if let Some(o) = &ord {
+        if !o.monotonic_screen {
+            problems.push("lightness order reverses on screen".to_string());
+        }
+        if !o.monotonic_print {
+            problems.push("lightness order reverses in print".to_string());
+        }
+        let small = o
+            .steps
+            .iter()
+            .filter(|s| s.too_small_print || s.too_small_screen)
+            .count();
+        if small > 0 {
+            problems.push(format!(
+                "{small} step{} below ΔE00 {}",
+                if small == 1 { "" } else { "s" },
+                opts.min_step
+            ));
+        }
+    }
+    if let Some(c) = &cvd {
+        for (d, r) in c.iter() {
+            if !r.flagged.is_empty() {
+                problems.push(format!(
+                    "{} {} under {d} simulation",
+                    r.flagged.len(),
+                    if r.flagged.len() == 1 {
+                        "pair collapses"
+                    } else {
+                        "pairs collapse"
+                    }
+                ));
+            }
+        }
+    }
+    Survival {
+        scheme: opts.scheme,
+        passes: problems.is_empty(),
+        problems,
+        separation: sep,
+        order: ord,
+        cvd,
+    }
+}
+
+/// The analysis over the result of a palette check.
+pub fn analyse_check(r: &CheckReport, opts: &SurvivalOptions) -> Survival {
+    let names: Vec<String> = r.entries.iter().map(|e| e.name.clone()).collect();
+    let screen: Vec<LabD50> = r.entries.iter().map(|e| LabD50::from_array(e.screen_lab)).collect();
+    let print: Vec<LabD50> = r.entries.iter().map(|e| LabD50::from_array(e.proof_lab)).collect();
+    analyse(&names, &screen, &print, opts)
+}
+
+/// `inkfit check --json`: the check's keys followed by `scheme`,
+/// `separation`, `order` and `cvd`.
+#[derive(Serialize)]
+pub struct CheckWithSurvival<'a> {
+    #[serde(flatten)]
+    pub check: &'a CheckReport,
+    #[serde(flatten)]
+    pub survival: &'a Survival,
+}
