@@ -16,6 +16,7 @@ pub mod color;
 pub mod gamut;
 pub mod icc;
 pub mod io;
+pub mod plot;
 pub mod press;
 pub mod proof;
 pub mod report;

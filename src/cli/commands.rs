@@ -38,6 +38,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<Outcome, Error> {
         Command::Profiles(a) => run_profiles(a, out),
         Command::Proof(a) => super::proof::run_proof(a, out),
         Command::Gamut(a) => super::gamut::run_gamut(a, out),
+        Command::Plot(a) => super::plot::run_plot(a),
         Command::Repair(a) => super::repair::run_repair(a, out),
         Command::BuildPress(a) => run_build_press(a),
     }
@@ -49,6 +50,9 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     }
     // The plan: everything is read and checked before any output.
     let survival = a.survival.options()?;
+    if let Some(p) = &a.svg {
+        super::plot::check_svg_path(p)?;
+    }
     let palette = Palette::read(&a.palette)?;
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
@@ -65,6 +69,10 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         super::GamutTestArg::RoundTrip => None,
     };
     let r = check_against(&palette, &screen, &press, opts, press_gamut.as_ref())?;
+    if let Some(p) = &a.svg {
+        let fig = super::plot::check_figure(&r, &screen, &press, press_gamut.as_ref(), opts.mapping)?;
+        super::plot::write_figure(p, &fig)?;
+    }
     super::repair::finish_check(&r, &survival, a.json, a.strict, use_color(), out)
 }
 

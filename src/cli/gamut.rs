@@ -38,6 +38,9 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             return Err(GamutError::InkLimit { value: v }.into());
         }
     }
+    if let Some(p) = &a.svg {
+        super::plot::check_svg_path(p)?;
+    }
     let format = match &a.mesh {
         Some(p) => Some(
             MeshFormat::from_path(p)
@@ -73,6 +76,9 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
                 triangles: m.triangles.len(),
             });
         }
+    }
+    if let Some(p) = &a.svg {
+        super::plot::write_figure(p, &super::plot::gamut_figure(&profiles, &gamuts)?)?;
     }
     let r = GamutReport::new(&gamuts, coverage, meshes);
     if a.json {

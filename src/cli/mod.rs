@@ -3,6 +3,7 @@
 
 mod commands;
 mod gamut;
+pub mod plot;
 mod proof;
 pub mod repair;
 
@@ -39,6 +40,8 @@ pub enum Command {
     Proof(proof::ProofArgs),
     /// Gamut of each profile in CIELAB: volume, lightness range, chroma per hue, coverage of each pair, meshes.
     Gamut(GamutArgs),
+    /// Draw a figure as SVG: xy or u′v′ chromaticity diagram, a*b* slices, or a hue leaf.
+    Plot(plot::PlotArgs),
     /// Propose the nearest palette that prints: inside the press gamut, classes kept apart, order kept.
     Repair(repair::RepairArgs),
     /// Maintainers: rebuild a built-in press profile from its printing model.
@@ -103,6 +106,9 @@ pub struct CheckArgs {
     /// How "in gamut" is decided: inside the press gamut's boundary, or by a CIELAB → press → CIELAB round trip.
     #[arg(long, value_enum, default_value = "boundary")]
     pub gamut_test: GamutTestArg,
+    /// Also write the xy chromaticity diagram of the check (outlines, an arrow per colour) as SVG.
+    #[arg(long, value_name = "FILE.svg")]
+    pub svg: Option<PathBuf>,
     #[command(flatten)]
     pub survival: repair::SurvivalArgs,
 }
@@ -156,6 +162,9 @@ pub struct GamutArgs {
     /// Total-ink limit for CMYK profiles in percent (default: measured from each profile's CIELAB → CMYK table).
     #[arg(long, value_name = "PERCENT")]
     pub ink_limit: Option<f64>,
+    /// Also write a*b* slices of every gamut at L* 25, 50 and 75 as SVG.
+    #[arg(long, value_name = "FILE.svg")]
+    pub svg: Option<PathBuf>,
 }
 
 #[derive(Args, Debug)]
