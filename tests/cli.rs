@@ -405,3 +405,29 @@ fn build_press_writes_the_committed_profile() {
         "the committed profile is out of date: run `inkfit build-press offset-coated --out profiles/offset-coated.icc`"
     );
 }
+
+#[test]
+fn check_svg_joins_the_pairs_that_collapse_in_print() {
+    // soils.csv: Alluvium and Saltmarsh are ΔE00 11.4 apart on screen and
+    // about 7 in print, below the default floor of 10.
+    let dir = tempfile::tempdir().unwrap();
+    let svg = dir.path().join("soils.svg");
+    let o = run(&["check", &demo("soils.csv"), "--svg", svg.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let text = std::fs::read_to_string(&svg).unwrap();
+    let lines: Vec<&str> = text.matches("class=\"collapsed-pair\"").collect();
+    assert_eq!(lines.len(), 1, "one collapsed pair");
+    assert!(text.contains("data-a=\"Alluvium\" data-b=\"Saltmarsh\""));
+    assert!(text.contains("pair too close in print"), "legend key");
+    // A palette whose classes all stay apart draws no such line.
+    let o = run(&[
+        "check",
+        &demo("density.txt"),
+        "--min-separation",
+        "1",
+        "--svg",
+        svg.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(!std::fs::read_to_string(&svg).unwrap().contains("collapsed-pair"));
+}

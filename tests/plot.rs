@@ -286,6 +286,7 @@ fn figure(kind: PlotKind, names: &[&str]) -> Figure {
         lightness: vec![50.0, 70.0],
         hue: 250.0,
         mapping: Some("relative colorimetric with black point compensation onto offset-coated".into()),
+        collapsed: Vec::new(),
     }
 }
 

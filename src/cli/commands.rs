@@ -69,11 +69,19 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         super::GamutTestArg::RoundTrip => None,
     };
     let r = check_against(&palette, &screen, &press, opts, press_gamut.as_ref())?;
+    let s = crate::swatch::survival::analyse_check(&r, &survival);
     if let Some(p) = &a.svg {
-        let fig = super::plot::check_figure(&r, &screen, &press, press_gamut.as_ref(), opts.mapping)?;
+        let collapsed: Vec<[usize; 2]> = s
+            .separation
+            .flagged
+            .iter()
+            .filter(|f| f.below_floor)
+            .map(|f| [f.a - 1, f.b - 1])
+            .collect();
+        let fig = super::plot::check_figure(&r, &screen, &press, press_gamut.as_ref(), opts.mapping, &collapsed)?;
         super::plot::write_figure(p, &fig)?;
     }
-    super::repair::finish_check(&r, &survival, a.json, a.strict, use_color(), out)
+    super::repair::finish_check(&r, &s, a.json, a.strict, use_color(), out)
 }
 
 fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {

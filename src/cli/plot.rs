@@ -173,6 +173,7 @@ pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
             .as_ref()
             .filter(|_| palette.is_some())
             .map(|p| mapping_words(mapping, &p.name)),
+        collapsed: Vec::new(),
     };
     write_figure(&a.out, &fig)?;
     Ok(Outcome::Done)
@@ -186,6 +187,7 @@ pub fn check_figure(
     press: &IccProfile,
     press_gamut: Option<&Gamut>,
     mapping: PressMapping,
+    collapsed: &[[usize; 2]],
 ) -> Result<Figure, Error> {
     let known: Vec<&Gamut> = press_gamut.into_iter().collect();
     let profiles = [screen, press];
@@ -206,6 +208,7 @@ pub fn check_figure(
         lightness: Vec::new(),
         hue: plot::DEFAULT_HUE,
         mapping: Some(mapping_words(mapping, &press.name)),
+        collapsed: collapsed.to_vec(),
     })
 }
 
@@ -225,5 +228,6 @@ pub fn gamut_figure(profiles: &[IccProfile], gamuts: &[Gamut]) -> Result<Figure,
         lightness: plot::GAMUT_LIGHTNESS.to_vec(),
         hue: plot::DEFAULT_HUE,
         mapping: None,
+        collapsed: Vec::new(),
     })
 }

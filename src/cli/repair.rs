@@ -15,7 +15,7 @@ use crate::report::table::{Align, Table, Tone};
 use crate::swatch::check::CheckReport;
 use crate::swatch::order::Scheme;
 use crate::swatch::repair::{repair, write_palette, RepairOptions, RepairReport};
-use crate::swatch::survival::{analyse_check, CheckWithSurvival, SurvivalOptions};
+use crate::swatch::survival::{CheckWithSurvival, Survival, SurvivalOptions};
 use crate::swatch::{Format, Palette};
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
@@ -80,19 +80,18 @@ impl SurvivalArgs {
 /// Renders `check` with its survival section; the outcome under `--strict`.
 pub fn finish_check(
     r: &CheckReport,
-    opts: &SurvivalOptions,
+    s: &Survival,
     json: bool,
     strict: bool,
     color: bool,
     out: &mut dyn Write,
 ) -> Result<Outcome, Error> {
-    let s = analyse_check(r, opts);
     if json {
-        crate::report::write_json(out, &CheckWithSurvival { check: r, survival: &s })?;
+        crate::report::write_json(out, &CheckWithSurvival { check: r, survival: s })?;
     } else {
         crate::report::render_check(out, r, color)?;
         let names: Vec<String> = r.entries.iter().map(|e| e.name.clone()).collect();
-        crate::report::survival::render_survival(out, &s, &names, color)?;
+        crate::report::survival::render_survival(out, s, &names, color)?;
     }
     Ok(if strict && (r.summary.beyond_tolerance > 0 || !s.passes) {
         Outcome::BeyondTolerance

@@ -306,17 +306,34 @@ fn legend(svg: &mut Svg, fig: &Figure, x: f64, y: f64) {
         );
         yy += 18.0;
         let keys: Vec<(&str, &str)> = if fig.mapping.is_some() {
-            vec![
+            let mut k = vec![
                 ("in", "inside the press gamut"),
                 ("out", "outside the press gamut"),
                 ("arrow", "arrow: as printed"),
-            ]
+            ];
+            if !fig.collapsed.is_empty() {
+                k.push(("collapsed", "dotted: pair too close in print"));
+            }
+            k
         } else {
             vec![("unchecked", "screen colour (no press given)")]
         };
         for (cls, text) in keys {
             svg.open("g", &[("class", s("legend-key")), ("data-key", s(cls))]);
             match cls {
+                "collapsed" => svg.empty(
+                    "line",
+                    &[
+                        ("x1", num(x + 2.0)),
+                        ("y1", num(yy - 4.0)),
+                        ("x2", num(x + 26.0)),
+                        ("y2", num(yy - 4.0)),
+                        ("stroke", s("#b00020")),
+                        ("stroke-width", s("2.5")),
+                        ("stroke-dasharray", s("1 3")),
+                        ("stroke-linecap", s("round")),
+                    ],
+                ),
                 "arrow" => svg.empty(
                     "line",
                     &[
@@ -731,6 +748,43 @@ fn chromaticity(fig: &Figure) -> String {
         svg.close();
     }
     svg.close();
+    // Pairs that collapse in print, joined where they print (drawn under
+    // the markers): the separation problems of `check --svg`.
+    if !fig.collapsed.is_empty() {
+        let printed_at = |sw: &Swatch| {
+            sw.printed_lab
+                .or(Some(sw.screen_lab))
+                .and_then(lab_to_xy)
+                .and_then(map)
+                .map(|q| p.px(q))
+        };
+        svg.open("g", &[("id", s("collapsed-pairs"))]);
+        for &[i, j] in &fig.collapsed {
+            let (Some(a), Some(b)) = (fig.swatches.get(i), fig.swatches.get(j)) else {
+                continue;
+            };
+            let (Some(pa), Some(pb)) = (printed_at(a), printed_at(b)) else {
+                continue;
+            };
+            svg.empty(
+                "line",
+                &[
+                    ("class", s("collapsed-pair")),
+                    ("data-a", a.name.clone()),
+                    ("data-b", b.name.clone()),
+                    ("x1", num(pa[0])),
+                    ("y1", num(pa[1])),
+                    ("x2", num(pb[0])),
+                    ("y2", num(pb[1])),
+                    ("stroke", s("#b00020")),
+                    ("stroke-width", s("2.5")),
+                    ("stroke-dasharray", s("1 3")),
+                    ("stroke-linecap", s("round")),
+                ],
+            );
+        }
+        svg.close();
+    }
     // Palette.
     svg.open("g", &[("id", s("palette"))]);
     for sw in &fig.swatches {

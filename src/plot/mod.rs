@@ -167,6 +167,9 @@ pub struct Figure {
     /// colorimetric with black point compensation onto offset-coated";
     /// `None` without a press.
     pub mapping: Option<String>,
+    /// Pairs of swatches (0-based) whose printed CIEDE2000 falls below the
+    /// separation floor: joined by a line in the chromaticity diagrams.
+    pub collapsed: Vec<[usize; 2]>,
 }
 
 /// Default slice levels of `--lightness`.

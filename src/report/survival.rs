@@ -62,9 +62,12 @@ pub fn render_survival(w: &mut dyn Write, s: &Survival, names: &[String], color:
     } else {
         writeln!(
             w,
-            "  {} pair{} COLLAPSE in print:",
-            collapsed.len(),
-            if collapsed.len() == 1 { "" } else { "s" }
+            "  {} COLLAPSE in print:",
+            if collapsed.len() == 1 {
+                "1 pair".to_string()
+            } else {
+                format!("{} pairs", collapsed.len())
+            }
         )?;
         pair_table(w, &collapsed, sep.min_separation, color)?;
     }
