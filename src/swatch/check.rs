@@ -3,6 +3,7 @@
 //! printed, CIEDE2000 between the two, and whether the colour is printable.
 
 use crate::report::round;
+use rayon::prelude::*;
 use serde::Serialize;
 
 use super::Palette;
@@ -143,6 +144,9 @@ pub fn check_against(
     let printed = t.printed_lab(&cmyk);
     let round_trip = t.round_trip(&screen_lab);
 
+    // The boundary test and the distance to the gamut, in parallel: the
+    // nearest-point search dominates a check of many out-of-gamut colours.
+    let judged: Option<Vec<(bool, f64)>> = press_gamut.map(|g| screen_lab.par_iter().map(|&l| g.judge(l)).collect());
     let mut entries = Vec::with_capacity(n);
     for (i, e) in palette.entries.iter().enumerate() {
         let de = delta_e00(screen_lab[i], printed[i]);
@@ -151,12 +155,9 @@ pub fn check_against(
             ColorInput::DeviceCmyk(_) => 0.0,
             _ => delta_e00(screen_lab[i], round_trip[i]),
         };
-        let (in_gamut, outside_by) = match (press_gamut, e.color) {
+        let (in_gamut, outside_by) = match (&judged, e.color) {
             (Some(_), ColorInput::DeviceCmyk(_)) => (true, Some(0.0)),
-            (Some(g), _) => {
-                let (inside, d) = g.judge(screen_lab[i]);
-                (inside, Some(round(d, 2)))
-            }
+            (Some(j), _) => (j[i].0, Some(round(j[i].1, 2))),
             (None, _) => (rt <= ROUND_TRIP_THRESHOLD, None),
         };
         entries.push(CheckedEntry {
