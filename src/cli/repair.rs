@@ -1,6 +1,7 @@
 //! `inkfit repair` and the palette-survival options shared with
 //! `inkfit check` (scheme, separation floor, minimum step, deficiencies).
 
+use crate::report::fixed;
 use std::io::Write;
 use std::path::PathBuf;
 
@@ -160,19 +161,6 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
     })
 }
 
-fn f(v: f64, places: usize) -> String {
-    let s = format!("{v:.places$}");
-    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
-        s[1..].to_string()
-    } else {
-        s
-    }
-}
-
-fn lab3(v: [f64; 3]) -> String {
-    format!("{} {} {}", f(v[0], 1), f(v[1], 1), f(v[2], 1))
-}
-
 /// The original → repaired table and what still fails.
 pub fn render_repair(w: &mut dyn Write, r: &RepairReport, out_name: &str) -> std::io::Result<()> {
     writeln!(w, "palette  {} → {}", r.palette, out_name)?;
@@ -209,19 +197,19 @@ pub fn render_repair(w: &mut dyn Write, r: &RepairReport, out_name: &str) -> std
                 },
                 Tone::Plain,
             ),
-            (f(e.moved, 2), Tone::Plain),
-            (lab3(e.repaired_screen_lab), Tone::Plain),
+            (fixed(e.moved, 2), Tone::Plain),
+            (lab_text(e.repaired_screen_lab), Tone::Plain),
             (
                 format!(
                     "{} {} {} {}",
-                    f(e.press_cmyk[0], 0),
-                    f(e.press_cmyk[1], 0),
-                    f(e.press_cmyk[2], 0),
-                    f(e.press_cmyk[3], 0)
+                    fixed(e.press_cmyk[0], 0),
+                    fixed(e.press_cmyk[1], 0),
+                    fixed(e.press_cmyk[2], 0),
+                    fixed(e.press_cmyk[3], 0)
                 ),
                 Tone::Plain,
             ),
-            (lab3(e.printed_lab), Tone::Plain),
+            (lab_text(e.printed_lab), Tone::Plain),
         ]);
     }
     t.write(w, false)?;
@@ -229,9 +217,9 @@ pub fn render_repair(w: &mut dyn Write, r: &RepairReport, out_name: &str) -> std
     writeln!(
         w,
         "closest printed pair ΔE00: before {}, after {} (floor {})",
-        f(r.before.separation.min_print, 2),
-        f(r.after.separation.min_print, 2),
-        f(r.after.separation.min_separation, 1)
+        fixed(r.before.separation.min_print, 2),
+        fixed(r.after.separation.min_print, 2),
+        fixed(r.after.separation.min_separation, 1)
     )?;
     if r.all_met() {
         writeln!(w, "every constraint holds")
@@ -245,4 +233,9 @@ pub fn render_repair(w: &mut dyn Write, r: &RepairReport, out_name: &str) -> std
         }
         Ok(())
     }
+}
+
+/// CIELAB as three numbers of one decimal, space-separated.
+fn lab_text(v: [f64; 3]) -> String {
+    format!("{} {} {}", fixed(v[0], 1), fixed(v[1], 1), fixed(v[2], 1))
 }

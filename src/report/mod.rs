@@ -33,7 +33,7 @@ pub fn write_json<T: Serialize>(w: &mut dyn Write, value: &T) -> io::Result<()> 
 }
 
 /// Fixed-precision text; a value that rounds to zero prints without a sign.
-fn f(v: f64, places: usize) -> String {
+pub fn fixed(v: f64, places: usize) -> String {
     let s = format!("{v:.places$}");
     if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
         s[1..].to_string()
@@ -42,8 +42,9 @@ fn f(v: f64, places: usize) -> String {
     }
 }
 
-fn lab3(v: [f64; 3]) -> String {
-    format!("{:>5} {:>6} {:>6}", f(v[0], 1), f(v[1], 1), f(v[2], 1))
+/// CIELAB as three fixed-width numbers of one decimal, for tables.
+pub fn lab3(v: [f64; 3]) -> String {
+    format!("{:>5} {:>6} {:>6}", fixed(v[0], 1), fixed(v[1], 1), fixed(v[2], 1))
 }
 
 pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Result<()> {
@@ -64,7 +65,7 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
     writeln!(
         w,
         "limit    ΔE00 {} (a rule of thumb, not a standard)",
-        f(r.tolerance, 1)
+        fixed(r.tolerance, 1)
     )?;
     writeln!(w, "gamut    {}", r.gamut_test)?;
     for n in &r.notes {
@@ -93,19 +94,19 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
             plain(e.name.clone()),
             plain(e.input.clone()),
             plain(lab3(e.screen_lab)),
-            plain(f(e.press_cmyk[0], 0)),
-            plain(f(e.press_cmyk[1], 0)),
-            plain(f(e.press_cmyk[2], 0)),
-            plain(f(e.press_cmyk[3], 0)),
-            plain(f(e.ink_total, 0)),
+            plain(fixed(e.press_cmyk[0], 0)),
+            plain(fixed(e.press_cmyk[1], 0)),
+            plain(fixed(e.press_cmyk[2], 0)),
+            plain(fixed(e.press_cmyk[3], 0)),
+            plain(fixed(e.ink_total, 0)),
             plain(lab3(e.proof_lab)),
             (
-                f(e.delta_e00, 2),
+                fixed(e.delta_e00, 2),
                 if e.within_tolerance { Tone::Plain } else { Tone::Bad },
             ),
             match (e.in_gamut, e.outside_by) {
                 (true, _) => plain("inside".into()),
-                (false, Some(d)) => (format!("out by {}", f(d, 1)), Tone::Bad),
+                (false, Some(d)) => (format!("out by {}", fixed(d, 1)), Tone::Bad),
                 (false, None) => ("outside".into(), Tone::Bad),
             },
             if e.within_tolerance {
@@ -124,11 +125,11 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
         s.count,
         if s.count == 1 { "" } else { "s" },
         s.beyond_tolerance,
-        f(r.tolerance, 1),
+        fixed(r.tolerance, 1),
         s.out_of_gamut,
-        f(s.max_delta_e00, 2),
+        fixed(s.max_delta_e00, 2),
         s.worst,
-        f(s.mean_delta_e00, 2)
+        fixed(s.mean_delta_e00, 2)
     )
 }
 
@@ -156,9 +157,9 @@ pub fn render_delta(w: &mut dyn Write, r: &DeltaReport) -> io::Result<()> {
             w,
             "{label}  {:<28} L*a*b* (D50) {} {} {}",
             c.input,
-            f(c.lab[0], 2),
-            f(c.lab[1], 2),
-            f(c.lab[2], 2)
+            fixed(c.lab[0], 2),
+            fixed(c.lab[1], 2),
+            fixed(c.lab[2], 2)
         )?;
     }
     writeln!(w)?;
@@ -169,7 +170,7 @@ pub fn render_delta(w: &mut dyn Write, r: &DeltaReport) -> io::Result<()> {
         ("CIEDE2000 ΔE00", r.de00),
         ("CMC(2:1) (A as reference)", r.cmc),
     ] {
-        t.row(vec![(name.to_string(), Tone::Plain), (f(v, 4), Tone::Plain)]);
+        t.row(vec![(name.to_string(), Tone::Plain), (fixed(v, 4), Tone::Plain)]);
     }
     t.write(w, false)
 }
@@ -210,12 +211,12 @@ pub fn render_inspect(w: &mut dyn Write, r: &ProfileReport) -> io::Result<()> {
         (Some(x), Some(l)) => writeln!(
             w,
             "media white  XYZ {} {} {}   L*a*b* (D50) {} {} {}",
-            f(x[0], 4),
-            f(x[1], 4),
-            f(x[2], 4),
-            f(l[0], 2),
-            f(l[1], 2),
-            f(l[2], 2)
+            fixed(x[0], 4),
+            fixed(x[1], 4),
+            fixed(x[2], 4),
+            fixed(l[0], 2),
+            fixed(l[1], 2),
+            fixed(l[2], 2)
         )?,
         _ => writeln!(w, "media white  (no wtpt tag)")?,
     }

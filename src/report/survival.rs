@@ -7,14 +7,7 @@ use super::table::{Align, Table, Tone};
 use crate::swatch::separation::FlaggedPair;
 use crate::swatch::survival::Survival;
 
-fn f(v: f64, places: usize) -> String {
-    let s = format!("{v:.places$}");
-    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
-        s[1..].to_string()
-    } else {
-        s
-    }
-}
+use super::fixed as f;
 
 fn why(p: &FlaggedPair, floor: f64) -> String {
     match (p.below_floor, p.lost_half) {
