@@ -587,3 +587,213 @@ fn jpeg_in_jpeg_out_with_the_screen_profile() {
     // JPEG APP2 ICC segments carry the screen profile.
     assert_eq!(r.info.icc.as_deref(), Some(&builtin("srgb").bytes[..]));
 }
+
+/// A CMYK TIFF (photometric separated) written with the `tiff` crate's own
+/// encoder, with `icc` in tag 34675 when given.
+fn write_cmyk_tiff<C>(path: &Path, w: u32, h: u32, data: &[C::Inner], icc: Option<&[u8]>)
+where
+    C: tiff::encoder::colortype::ColorType,
+    [C::Inner]: tiff::encoder::TiffValue,
+{
+    let mut bytes = Vec::new();
+    {
+        let mut enc = tiff::encoder::TiffEncoder::new(std::io::Cursor::new(&mut bytes)).unwrap();
+        let mut img = enc.new_image::<C>(w, h).unwrap();
+        if let Some(p) = icc {
+            img.encoder().write_tag(tiff::tags::Tag::IccProfile, p).unwrap();
+        }
+        img.write_data(data).unwrap();
+    }
+    std::fs::write(path, bytes).unwrap();
+}
+
+/// Solid inks, overprints, a K-only grey, paper and a rich black.
+const INKS: [[u8; 4]; 8] = [
+    [255, 0, 0, 0],
+    [0, 255, 0, 0],
+    [0, 0, 255, 0],
+    [255, 255, 0, 0],
+    [0, 0, 0, 128],
+    [0, 0, 0, 0],
+    [160, 140, 140, 255],
+    [40, 90, 130, 10],
+];
+
+fn lcms_cmyk_to_srgb8(px: &[[u8; 4]], intent: lcms2::Intent) -> Vec<u8> {
+    // lcms2's own plain transform (cmsCreateTransform, no BPC), built here.
+    let press = lcms2::Profile::new_icc(inkfit::press::OFFSET_COATED_ICC).unwrap();
+    let srgb = builtin("srgb").lcms;
+    let t: lcms2::Transform<[u8; 4], [u8; 3]> = lcms2::Transform::new(
+        &press,
+        lcms2::PixelFormat::CMYK_8,
+        &srgb,
+        lcms2::PixelFormat::RGB_8,
+        intent,
+    )
+    .unwrap();
+    let mut out = vec![[0u8; 3]; px.len()];
+    t.transform_pixels(px, &mut out);
+    out.concat()
+}
+
+#[test]
+fn cmyk_tiff_proofs_as_lcms2_press_to_screen() {
+    let dir = temp();
+    let img = dir.path().join("press.tif");
+    write_cmyk_tiff::<tiff::encoder::colortype::CMYK8>(
+        &img,
+        4,
+        2,
+        &INKS.concat(),
+        Some(inkfit::press::OFFSET_COATED_ICC),
+    );
+    for (paper_white, intent) in [
+        (false, lcms2::Intent::RelativeColorimetric),
+        (true, lcms2::Intent::AbsoluteColorimetric),
+    ] {
+        let out = dir.path().join(format!("o-{paper_white}.png"));
+        let mut args = vec!["proof".to_string(), s(&img), "--out".into(), s(&out), "--json".into()];
+        if paper_white {
+            args.push("--paper-white".into());
+        }
+        let o = bin().args(&args).output().unwrap();
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+        let v = json(&o);
+        let im = &v["images"][0];
+        assert_eq!(im["channels"], "cmyk");
+        assert_eq!(im["profile_source"], "embedded");
+        // Press data is printable by definition.
+        assert_eq!(im["stats"]["outside_gamut"].as_f64(), Some(0.0));
+        // The solid cyan is clipped by sRGB (checked exactly in
+        // cmyk_delta_e_is_the_screen_clipping_of_the_press_colour).
+        assert!(im["stats"]["max"].as_f64().unwrap() > 1.0, "{im}");
+        // Reference: lcms2's CMYK → sRGB transform of the same pixels.
+        let want = lcms_cmyk_to_srgb8(&INKS, intent);
+        let got = raster::read(&out).unwrap().color;
+        let diff = got.iter().zip(&want).map(|(a, b)| a.abs_diff(*b)).max().unwrap();
+        assert!(diff <= 1, "paper white {paper_white}: {got:?} vs {want:?}");
+    }
+    // Untagged: the --press profile is assumed.
+    let bare = dir.path().join("bare.tif");
+    write_cmyk_tiff::<tiff::encoder::colortype::CMYK8>(&bare, 4, 2, &INKS.concat(), None);
+    let o = run(&["proof", &s(&bare), "--out", &s(&dir.path().join("b.tif")), "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert_eq!(json(&o)["images"][0]["profile_source"], "assumed");
+    let got = raster::read(&dir.path().join("b.tif")).unwrap().color;
+    assert_eq!(got.len(), 24);
+    let want = lcms_cmyk_to_srgb8(&INKS, lcms2::Intent::RelativeColorimetric);
+    assert!(
+        got.iter().zip(&want).all(|(a, b)| a.abs_diff(*b) <= 1),
+        "{got:?} vs {want:?}"
+    );
+}
+
+#[test]
+fn sixteen_bit_cmyk_tiff_matches_lcms2_sixteen_bit_transform() {
+    let dir = temp();
+    let img = dir.path().join("deep.tif");
+    let px: Vec<[u16; 4]> = INKS
+        .iter()
+        .map(|p| p.map(|v| u16::from(v) * 257 + if v == 0 || v == 255 { 0 } else { 77 }))
+        .collect();
+    write_cmyk_tiff::<tiff::encoder::colortype::CMYK16>(&img, 8, 1, &px.concat(), None);
+    let out = dir.path().join("deep.proof.tif");
+    let o = run(&["proof", &s(&img), "--out", &s(&out), "--quiet"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let r = raster::read(&out).unwrap();
+    assert_eq!(r.info.bits, 16);
+    let got: Vec<u16> = r
+        .color
+        .chunks_exact(2)
+        .map(|c| u16::from_ne_bytes([c[0], c[1]]))
+        .collect();
+    // Reference: lcms2's 16-bit CMYK → sRGB transform, relative colorimetric.
+    let press = lcms2::Profile::new_icc(inkfit::press::OFFSET_COATED_ICC).unwrap();
+    let t: lcms2::Transform<[u16; 4], [u16; 3]> = lcms2::Transform::new(
+        &press,
+        lcms2::PixelFormat::CMYK_16,
+        &builtin("srgb").lcms,
+        lcms2::PixelFormat::RGB_16,
+        lcms2::Intent::RelativeColorimetric,
+    )
+    .unwrap();
+    let mut want = vec![[0u16; 3]; px.len()];
+    t.transform_pixels(&px, &mut want);
+    let diff = got.iter().zip(want.concat()).map(|(a, b)| a.abs_diff(b)).max().unwrap();
+    assert!(diff <= 2, "{got:?} vs {want:?}");
+}
+
+#[test]
+fn cmyk_delta_e_is_the_screen_clipping_of_the_press_colour() {
+    // Independent reference: lcms2 double-precision transforms built here
+    // (press → CIELAB; press → sRGB, clipped to 0..1, → CIELAB) and CIEDE2000
+    // from the `deltae` crate.
+    let press = builtin("offset-coated");
+    let srgb = builtin("srgb");
+    let e = ProofEngine::new(&press, 4, 8, &srgb, &press, mapping(true)).unwrap();
+    let device: Vec<f64> = INKS.iter().flatten().map(|&v| f64::from(v) / 255.0).collect();
+    let ours = e.exact().evaluate(&device);
+    let lab = lcms2::Profile::new_lab4_context(lcms2::GlobalContext::new(), lcms2::CIExyY::d50()).unwrap();
+    let rel = lcms2::Intent::RelativeColorimetric;
+    let to_lab: lcms2::Transform<[f64; 4], [f64; 3]> = lcms2::Transform::new(
+        &press.lcms,
+        lcms2::PixelFormat::CMYK_DBL,
+        &lab,
+        lcms2::PixelFormat::Lab_DBL,
+        rel,
+    )
+    .unwrap();
+    let to_rgb: lcms2::Transform<[f64; 4], [f64; 3]> = lcms2::Transform::new(
+        &press.lcms,
+        lcms2::PixelFormat::CMYK_DBL,
+        &srgb.lcms,
+        lcms2::PixelFormat::RGB_DBL,
+        rel,
+    )
+    .unwrap();
+    let rgb_lab: lcms2::Transform<[f64; 3], [f64; 3]> = lcms2::Transform::new(
+        &srgb.lcms,
+        lcms2::PixelFormat::RGB_DBL,
+        &lab,
+        lcms2::PixelFormat::Lab_DBL,
+        rel,
+    )
+    .unwrap();
+    let cmyk: Vec<[f64; 4]> = INKS.iter().map(|p| p.map(|v| f64::from(v) * 100.0 / 255.0)).collect();
+    let (mut a, mut rgb, mut b) = (vec![[0.0; 3]; 8], vec![[0.0; 3]; 8], vec![[0.0; 3]; 8]);
+    to_lab.transform_pixels(&cmyk, &mut a);
+    to_rgb.transform_pixels(&cmyk, &mut rgb);
+    for p in &mut rgb {
+        *p = p.map(|v| v.clamp(0.0, 1.0));
+    }
+    rgb_lab.transform_pixels(&rgb, &mut b);
+    let lv = |l: [f64; 3]| deltae::LabValue::new(l[0] as f32, l[1] as f32, l[2] as f32).unwrap();
+    for i in 0..8 {
+        let want = *deltae::DeltaE::new(lv(a[i]), lv(b[i]), deltae::DEMethod::DE2000).value();
+        assert!((ours[i][0] - want).abs() < 0.05, "ink {i}: {} vs {want}", ours[i][0]);
+        assert_eq!(ours[i][1], 0.0, "press data is inside the press gamut");
+    }
+    // From memory: the K-only grey and the paper white of a coated press lie
+    // inside sRGB (no clipping), its solid cyan does not.
+    assert!(ours[4][0] < 0.5 && ours[5][0] < 0.5, "{ours:?}");
+    assert!(ours[0][0] > 1.0, "cyan: {ours:?}");
+}
+
+#[test]
+fn cmyk_tiff_with_an_rgb_profile_is_refused() {
+    let dir = temp();
+    let img = dir.path().join("mislabelled.tif");
+    write_cmyk_tiff::<tiff::encoder::colortype::CMYK8>(
+        &img,
+        2,
+        1,
+        &[0, 0, 0, 0, 255, 0, 0, 0],
+        Some(&builtin("srgb").bytes),
+    );
+    let out = dir.path().join("out");
+    assert_error(
+        &run(&["proof", &s(&img), "--out", &s(&out)]),
+        &["mislabelled.tif", "CMYK output profile"],
+    );
+    assert!(!out.exists() || listing(&out).is_empty(), "{:?}", listing(&out));
+}

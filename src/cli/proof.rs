@@ -22,8 +22,9 @@ use crate::swatch::check::DEFAULT_TOLERANCE;
 
 #[derive(Args, Debug)]
 pub struct ProofArgs {
-    /// Images (PNG, JPEG or TIFF; grey or RGB, 8 or 16 bits per channel) or folders of them.
-    /// An image without an embedded ICC profile is taken to be in the --screen profile.
+    /// Images (PNG, JPEG or TIFF; grey or RGB, 8 or 16 bits per channel; CMYK TIFF) or folders of them.
+    /// An image without an embedded ICC profile is taken to be in the --screen profile, a CMYK one
+    /// in --press; a CMYK image is press data, proofed press → screen only.
     #[arg(required = true, value_name = "IMAGE")]
     pub images: Vec<PathBuf>,
     /// Where proofs go: a folder (made if missing; NAME.proof.EXT, same format as the input)
@@ -258,7 +259,8 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         let engine = match engine_of.get(&key) {
             Some(&i) => i,
             None => {
-                let src = embedded.as_ref().unwrap_or(&screen);
+                let fallback = if info.channels == 4 { &press } else { &screen };
+                let src = embedded.as_ref().unwrap_or(fallback);
                 engines.push(ProofEngine::new(src, channels, info.bits, &screen, &press, mapping)?);
                 engine_of.insert(key, engines.len() - 1);
                 engines.len() - 1
@@ -266,6 +268,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         };
         let (profile, source) = match &embedded {
             Some(p) => (p.name.clone(), ProfileSource::Embedded),
+            None if info.channels == 4 => (press.name.clone(), ProfileSource::Assumed),
             None => (screen.name.clone(), ProfileSource::Assumed),
         };
         jobs.push(Job {
@@ -323,6 +326,13 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     notes.extend(press.intent_note(mapping.intent, Direction::FromPcs));
     if jobs.iter().any(|j| j.info.channels == 1) {
         notes.push("grey images are proofed to RGB: the press may not print grey neutral".to_string());
+    }
+    if jobs.iter().any(|j| j.info.channels == 4) {
+        notes.push(
+            "CMYK images are press data: proofed press → screen only (intent and BPC do not apply); \
+             their ΔE00 is between the press colour and what the screen shows of it, and none is outside the press gamut"
+                .to_string(),
+        );
     }
     if jobs.iter().any(|j| j.info.has_alpha) {
         notes.push("alpha is carried over unchanged; statistics count every pixel whatever its alpha".to_string());
@@ -438,7 +448,11 @@ fn proof_one(
             width: w,
             height: h,
             bits: job.info.bits,
-            channels: if job.info.channels == 1 { "grey" } else { "rgb" },
+            channels: match job.info.channels {
+                1 => "grey",
+                4 => "cmyk",
+                _ => "rgb",
+            },
             alpha: job.info.has_alpha,
             profile: job.profile.clone(),
             profile_source: job.source,

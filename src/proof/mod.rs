@@ -24,6 +24,24 @@
 //! The gamut test is the one [`crate::swatch::check`] uses: the round trip
 //! CIELAB → press → CIELAB (relative colorimetric, no BPC) returns within
 //! [`ROUND_TRIP_THRESHOLD`] ΔE00.
+//!
+//! # CMYK images
+//!
+//! A CMYK image is already press data, described by its own CMYK output
+//! profile (or the press). Its proof is the one step press → screen:
+//! relative colorimetric, or absolute colorimetric with `paper_white`; the
+//! rendering intent and BPC of the image → press step have nothing to act on.
+//! What can still go wrong on the way to the page is the screen, not the
+//! press: a saturated ink colour the screen cannot show is clipped, and the
+//! proof then understates what the press prints. So for a CMYK image the
+//! ΔE00 of a pixel is the CIEDE2000 between the press colour (CMYK → CIELAB,
+//! in the rendering shown: relative, or absolute with `paper_white`) and what
+//! the screen shows of it (that colour → screen device values clipped to the
+//! screen's range → CIELAB, same intent): zero for colours the screen holds,
+//! large where the screen clips. The outside-gamut share is 0 by definition,
+//! since every CMYK value is printable. These are computed exactly for every
+//! pixel (a run of equal pixels reuses the first result); there is no table
+//! over the four-dimensional ink space.
 
 pub mod heat;
 pub mod raster;
@@ -35,7 +53,7 @@ use rayon::prelude::*;
 
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
-use crate::icc::header::{SPACE_GRAY, SPACE_RGB};
+use crate::icc::header::{CLASS_OUTPUT, SPACE_CMYK, SPACE_GRAY, SPACE_RGB};
 use crate::icc::transform::{lab_d50_profile, PressMapping};
 use crate::icc::{IccError, IccProfile, RenderingIntent};
 pub use crate::swatch::check::ROUND_TRIP_THRESHOLD;
@@ -60,11 +78,14 @@ fn no_cache(bpc: bool) -> Flags<DisallowCache> {
     }
 }
 
-/// The lcms2 pixel format of `channels` (1 grey or 3 RGB) at `bits` (8 or 16).
+/// The lcms2 pixel format of `channels` (1 grey, 3 RGB or 4 CMYK) at `bits`
+/// (8 or 16).
 fn device_format(channels: usize, bits: u8) -> PixelFormat {
     match (channels, bits) {
         (1, 8) => PixelFormat::GRAY_8,
         (1, _) => PixelFormat::GRAY_16,
+        (4, 8) => PixelFormat::CMYK_8,
+        (4, _) => PixelFormat::CMYK_16,
         (_, 8) => PixelFormat::RGB_8,
         _ => PixelFormat::RGB_16,
     }
@@ -72,24 +93,35 @@ fn device_format(channels: usize, bits: u8) -> PixelFormat {
 
 /// Checks that an image's own profile can describe its pixels: an RGB
 /// profile with a table or matrix to the connection space for RGB pixels, a
-/// grey one for grey pixels.
+/// grey one for grey pixels, a CMYK output profile with a table to the
+/// connection space for CMYK pixels.
 pub fn check_embedded(profile: &IccProfile, channels: usize) -> Result<(), String> {
     let h = &profile.header;
     let has = |s: &[u8; 4]| h.tag(s).is_some();
-    let to_pcs = has(b"A2B0") || has(b"A2B1") || has(b"A2B2") || profile.is_matrix_shaper();
-    let (space, what) = if channels == 1 {
-        (SPACE_GRAY, "a grey profile")
-    } else {
-        (SPACE_RGB, "an RGB profile")
+    let tables = has(b"A2B0") || has(b"A2B1") || has(b"A2B2");
+    let (ok, layout, what) = match channels {
+        1 => (
+            h.color_space == SPACE_GRAY && (tables || profile.is_matrix_shaper()),
+            "a grey",
+            "a grey profile",
+        ),
+        4 => (
+            h.color_space == SPACE_CMYK && h.class == CLASS_OUTPUT && tables,
+            "a CMYK",
+            "a CMYK output profile",
+        ),
+        _ => (
+            h.color_space == SPACE_RGB && (tables || profile.is_matrix_shaper()),
+            "an RGB",
+            "an RGB profile",
+        ),
     };
-    if h.color_space == space && to_pcs {
+    if ok {
         Ok(())
     } else {
         Err(format!(
-            "the embedded profile is {}; {} {} image needs {what}",
-            profile.kind_phrase(),
-            if channels == 1 { "a" } else { "an" },
-            if channels == 1 { "grey" } else { "RGB" }
+            "the embedded profile is {}; {layout} image needs {what}",
+            profile.kind_phrase()
         ))
     }
 }
@@ -110,6 +142,17 @@ fn from_bytes(b: &[u8]) -> Vec<f64> {
 /// the ΔE00 of the colorimetric round trip behind the gamut flag.
 pub struct ExactModel {
     channels: usize,
+    chain: Chain,
+}
+
+enum Chain {
+    /// Screen images (grey or RGB): input → press → shown.
+    Screen(ScreenChain),
+    /// Press data (CMYK): press → shown on the screen.
+    Press(PressChain),
+}
+
+struct ScreenChain {
     to_lab: SharedTransform,
     to_press: SharedTransform,
     printed: SharedTransform,
@@ -117,7 +160,43 @@ pub struct ExactModel {
     press_to_lab: SharedTransform,
 }
 
+struct PressChain {
+    /// CMYK → CIELAB in the rendering shown.
+    to_lab: SharedTransform,
+    /// CMYK → screen device values in the rendering shown.
+    to_screen: SharedTransform,
+    /// Screen device values → CIELAB in the rendering shown.
+    screen_to_lab: SharedTransform,
+}
+
 impl ExactModel {
+    /// For a CMYK image: `input` is its CMYK profile (its own, or the press),
+    /// shown on `screen`; `mapping.paper_white` picks the rendering shown.
+    pub fn for_press_data(input: &IccProfile, screen: &IccProfile, mapping: PressMapping) -> Result<Self, IccError> {
+        let lab = lab_d50_profile();
+        let ctx = GlobalContext::new;
+        let shown = shown_intent(mapping);
+        let err = |p: &IccProfile, what: &'static str| IccError::Transform {
+            name: p.name.clone(),
+            what,
+            intent: shown,
+        };
+        let t = |from: &IccProfile, ff: PixelFormat, to: &lcms2::Profile, tf: PixelFormat| {
+            Transform::new_flags_context(ctx(), &from.lcms, ff, to, tf, shown.to_lcms(), no_cache(false))
+        };
+        Ok(Self {
+            channels: 4,
+            chain: Chain::Press(PressChain {
+                to_lab: t(input, PixelFormat::CMYK_DBL, &lab, PixelFormat::Lab_DBL)
+                    .map_err(|_| err(input, "press → CIELAB"))?,
+                to_screen: t(input, PixelFormat::CMYK_DBL, &screen.lcms, PixelFormat::RGB_DBL)
+                    .map_err(|_| err(screen, "press → screen"))?,
+                screen_to_lab: t(screen, PixelFormat::RGB_DBL, &lab, PixelFormat::Lab_DBL)
+                    .map_err(|_| err(screen, "screen → CIELAB"))?,
+            }),
+        })
+    }
+
     pub fn new(
         input: &IccProfile,
         channels: usize,
@@ -144,56 +223,58 @@ impl ExactModel {
         };
         Ok(Self {
             channels,
-            to_lab: Transform::new_flags_context(
-                ctx(),
-                &input.lcms,
-                in_fmt,
-                &lab,
-                PixelFormat::Lab_DBL,
-                rel.to_lcms(),
-                no_cache(false),
-            )
-            .map_err(|_| err(input, "image → CIELAB", rel))?,
-            to_press: Transform::new_flags_context(
-                ctx(),
-                &input.lcms,
-                in_fmt,
-                &press.lcms,
-                PixelFormat::CMYK_DBL,
-                mapping.intent.to_lcms(),
-                no_cache(mapping.bpc),
-            )
-            .map_err(|_| err(press, "image → press", mapping.intent))?,
-            printed: Transform::new_flags_context(
-                ctx(),
-                &press.lcms,
-                PixelFormat::CMYK_DBL,
-                &lab,
-                PixelFormat::Lab_DBL,
-                shown.to_lcms(),
-                no_cache(false),
-            )
-            .map_err(|_| err(press, "press → CIELAB", shown))?,
-            lab_to_press: Transform::new_flags_context(
-                ctx(),
-                &lab,
-                PixelFormat::Lab_DBL,
-                &press.lcms,
-                PixelFormat::CMYK_DBL,
-                rel.to_lcms(),
-                no_cache(false),
-            )
-            .map_err(|_| err(press, "CIELAB → press", rel))?,
-            press_to_lab: Transform::new_flags_context(
-                ctx(),
-                &press.lcms,
-                PixelFormat::CMYK_DBL,
-                &lab,
-                PixelFormat::Lab_DBL,
-                rel.to_lcms(),
-                no_cache(false),
-            )
-            .map_err(|_| err(press, "press → CIELAB", rel))?,
+            chain: Chain::Screen(ScreenChain {
+                to_lab: Transform::new_flags_context(
+                    ctx(),
+                    &input.lcms,
+                    in_fmt,
+                    &lab,
+                    PixelFormat::Lab_DBL,
+                    rel.to_lcms(),
+                    no_cache(false),
+                )
+                .map_err(|_| err(input, "image → CIELAB", rel))?,
+                to_press: Transform::new_flags_context(
+                    ctx(),
+                    &input.lcms,
+                    in_fmt,
+                    &press.lcms,
+                    PixelFormat::CMYK_DBL,
+                    mapping.intent.to_lcms(),
+                    no_cache(mapping.bpc),
+                )
+                .map_err(|_| err(press, "image → press", mapping.intent))?,
+                printed: Transform::new_flags_context(
+                    ctx(),
+                    &press.lcms,
+                    PixelFormat::CMYK_DBL,
+                    &lab,
+                    PixelFormat::Lab_DBL,
+                    shown.to_lcms(),
+                    no_cache(false),
+                )
+                .map_err(|_| err(press, "press → CIELAB", shown))?,
+                lab_to_press: Transform::new_flags_context(
+                    ctx(),
+                    &lab,
+                    PixelFormat::Lab_DBL,
+                    &press.lcms,
+                    PixelFormat::CMYK_DBL,
+                    rel.to_lcms(),
+                    no_cache(false),
+                )
+                .map_err(|_| err(press, "CIELAB → press", rel))?,
+                press_to_lab: Transform::new_flags_context(
+                    ctx(),
+                    &press.lcms,
+                    PixelFormat::CMYK_DBL,
+                    &lab,
+                    PixelFormat::Lab_DBL,
+                    rel.to_lcms(),
+                    no_cache(false),
+                )
+                .map_err(|_| err(press, "press → CIELAB", rel))?,
+            }),
         })
     }
 
@@ -205,40 +286,85 @@ impl ExactModel {
     }
 
     /// For device values (0..1, `channels` per colour): per colour
-    /// `[ΔE00 original ↔ print, ΔE00 of the colorimetric round trip]`.
+    /// `[ΔE00 original ↔ print, ΔE00 of the colorimetric round trip]`. For
+    /// CMYK: `[ΔE00 press colour ↔ its display, 0]` (see the module notes).
     pub fn evaluate(&self, device: &[f64]) -> Vec<[f32; 2]> {
         let n = device.len() / self.channels;
-        let lab = Self::run(&self.to_lab, device, 3, n);
-        let cmyk = Self::run(&self.to_press, device, 4, n);
-        let printed = Self::run(&self.printed, &cmyk, 3, n);
-        let rt_cmyk = Self::run(&self.lab_to_press, &lab, 4, n);
-        let rt = Self::run(&self.press_to_lab, &rt_cmyk, 3, n);
-        let at = |v: &[f64], i: usize| LabD50::new(v[3 * i], v[3 * i + 1], v[3 * i + 2]);
-        (0..n)
-            .map(|i| {
-                let o = at(&lab, i);
-                [delta_e00(o, at(&printed, i)) as f32, delta_e00(o, at(&rt, i)) as f32]
-            })
-            .collect()
+        match &self.chain {
+            Chain::Screen(c) => {
+                let lab = Self::run(&c.to_lab, device, 3, n);
+                let cmyk = Self::run(&c.to_press, device, 4, n);
+                let printed = Self::run(&c.printed, &cmyk, 3, n);
+                let rt_cmyk = Self::run(&c.lab_to_press, &lab, 4, n);
+                let rt = Self::run(&c.press_to_lab, &rt_cmyk, 3, n);
+                (0..n)
+                    .map(|i| {
+                        let o = lab_at(&lab, i);
+                        [
+                            delta_e00(o, lab_at(&printed, i)) as f32,
+                            delta_e00(o, lab_at(&rt, i)) as f32,
+                        ]
+                    })
+                    .collect()
+            }
+            Chain::Press(_) => {
+                let (o, shown) = (self.original_lab(device), self.printed_lab(device));
+                o.iter()
+                    .zip(&shown)
+                    .map(|(a, b)| [delta_e00(*a, *b) as f32, 0.0])
+                    .collect()
+            }
+        }
     }
 
-    /// CIELAB D50 of device values through the input profile (relative).
+    /// CIELAB D50 of device values through the input profile (relative; for
+    /// CMYK in the rendering shown).
     pub fn original_lab(&self, device: &[f64]) -> Vec<LabD50> {
         let n = device.len() / self.channels;
-        let v = Self::run(&self.to_lab, device, 3, n);
-        (0..n)
-            .map(|i| LabD50::new(v[3 * i], v[3 * i + 1], v[3 * i + 2]))
-            .collect()
+        let v = match &self.chain {
+            Chain::Screen(c) => Self::run(&c.to_lab, device, 3, n),
+            Chain::Press(c) => Self::run(&c.to_lab, &ink_percent(device), 3, n),
+        };
+        (0..n).map(|i| lab_at(&v, i)).collect()
     }
 
-    /// CIELAB D50 of device values as printed (as the proof shows them).
+    /// CIELAB D50 of device values as the proof shows them: printed, or for
+    /// CMYK as the screen can show them (device values clipped to 0..1).
     pub fn printed_lab(&self, device: &[f64]) -> Vec<LabD50> {
         let n = device.len() / self.channels;
-        let cmyk = Self::run(&self.to_press, device, 4, n);
-        let v = Self::run(&self.printed, &cmyk, 3, n);
-        (0..n)
-            .map(|i| LabD50::new(v[3 * i], v[3 * i + 1], v[3 * i + 2]))
-            .collect()
+        let v = match &self.chain {
+            Chain::Screen(c) => {
+                let cmyk = Self::run(&c.to_press, device, 4, n);
+                Self::run(&c.printed, &cmyk, 3, n)
+            }
+            Chain::Press(c) => {
+                // Floating-point lcms2 transforms are unbounded; the screen
+                // shows only 0..1.
+                let rgb: Vec<f64> = Self::run(&c.to_screen, &ink_percent(device), 3, n)
+                    .iter()
+                    .map(|x| if x.is_nan() { 0.0 } else { x.clamp(0.0, 1.0) })
+                    .collect();
+                Self::run(&c.screen_to_lab, &rgb, 3, n)
+            }
+        };
+        (0..n).map(|i| lab_at(&v, i)).collect()
+    }
+}
+
+fn lab_at(v: &[f64], i: usize) -> LabD50 {
+    LabD50::new(v[3 * i], v[3 * i + 1], v[3 * i + 2])
+}
+
+/// lcms2's floating-point CMYK is ink in percent (0..100).
+fn ink_percent(device: &[f64]) -> Vec<f64> {
+    device.iter().map(|v| v * 100.0).collect()
+}
+
+fn shown_intent(mapping: PressMapping) -> RenderingIntent {
+    if mapping.paper_white {
+        RenderingIntent::Absolute
+    } else {
+        RenderingIntent::Relative
     }
 }
 
@@ -257,6 +383,14 @@ impl DeltaTable {
     pub fn build(model: &ExactModel, n: usize) -> Self {
         let n = n.max(2);
         let ch = model.channels;
+        if ch == 4 {
+            // CMYK is evaluated per pixel (see the module notes).
+            return Self {
+                channels: ch,
+                n: 0,
+                nodes: Vec::new(),
+            };
+        }
         let count = if ch == 1 { n } else { n * n * n };
         let step = 1.0 / (n - 1) as f64;
         let device: Vec<f64> = (0..count)
@@ -283,7 +417,8 @@ impl DeltaTable {
         self.n
     }
 
-    /// Device channels of the table's input (1 grey, 3 RGB).
+    /// Device channels of the table's input (1 grey, 3 RGB; 4 CMYK, which
+    /// has no nodes).
     pub fn channels(&self) -> usize {
         self.channels
     }
@@ -369,7 +504,8 @@ pub struct ProofEngine {
 
 impl ProofEngine {
     /// `input` describes the image's pixels (`channels` 1 or 3, `bits` 8 or 16);
-    /// the proof is shown on `screen`.
+    /// the proof is shown on `screen`. With `channels` 4 the pixels are press
+    /// data in `input`, a CMYK output profile, and `press` is not used.
     pub fn new(
         input: &IccProfile,
         channels: usize,
@@ -378,11 +514,32 @@ impl ProofEngine {
         press: &IccProfile,
         mapping: PressMapping,
     ) -> Result<Self, IccError> {
-        let shown = if mapping.paper_white {
-            RenderingIntent::Absolute
-        } else {
-            RenderingIntent::Relative
-        };
+        let shown = shown_intent(mapping);
+        if channels == 4 {
+            let proof = Transform::new_flags_context(
+                GlobalContext::new(),
+                &input.lcms,
+                device_format(4, bits),
+                &screen.lcms,
+                device_format(3, bits),
+                shown.to_lcms(),
+                no_cache(false),
+            )
+            .map_err(|_| IccError::Transform {
+                name: input.name.clone(),
+                what: "press → screen",
+                intent: shown,
+            })?;
+            let exact = ExactModel::for_press_data(input, screen, mapping)?;
+            let table = DeltaTable::build(&exact, 0);
+            return Ok(Self {
+                channels,
+                bits,
+                proof,
+                exact,
+                table,
+            });
+        }
         let proof = Transform::new_proofing_context(
             GlobalContext::new(),
             &input.lcms,
@@ -463,6 +620,9 @@ impl ProofEngine {
     }
 
     fn chunk_deltas(&self, c: &[u8], method: Method) -> Vec<[f32; 2]> {
+        if self.channels == 4 {
+            return self.press_deltas(c);
+        }
         match method {
             Method::Exact => self.exact.evaluate(&self.normalised(c)),
             Method::Table => {
@@ -485,6 +645,28 @@ impl ProofEngine {
         }
     }
 
+    /// Exact values for CMYK pixels, evaluated once per run of equal pixels.
+    fn press_deltas(&self, c: &[u8]) -> Vec<[f32; 2]> {
+        let px = self.in_px();
+        let mut starts = Vec::new();
+        let mut prev: Option<&[u8]> = None;
+        for (i, p) in c.chunks_exact(px).enumerate() {
+            if prev != Some(p) {
+                starts.push(i);
+                prev = Some(p);
+            }
+        }
+        let distinct: Vec<u8> = starts.iter().flat_map(|&i| &c[i * px..(i + 1) * px]).copied().collect();
+        let values = self.exact.evaluate(&self.normalised(&distinct));
+        let n = c.len() / px;
+        let mut out = Vec::with_capacity(n);
+        for (k, &start) in starts.iter().enumerate() {
+            let end = starts.get(k + 1).copied().unwrap_or(n);
+            out.extend(std::iter::repeat_n(values[k], end - start));
+        }
+        out
+    }
+
     /// Proofs a decoded image: the proof, the ΔE00 map when `heat` is given,
     /// and the statistics. `method` chooses how ΔE00 is obtained.
     pub fn run(&self, raster: &Raster, heat: Option<&HeatScale>, method: Method) -> ProofOutput {
@@ -505,6 +687,10 @@ impl ProofEngine {
             .fold(Tally::new, |mut t, ((s, d), m)| {
                 self.proof.transform_pixels(s, d);
                 match method {
+                    _ if self.channels == 4 => {
+                        let v = self.press_deltas(s);
+                        accumulate(&v, m, heat, &mut t);
+                    }
                     Method::Table => match (self.channels, self.bits) {
                         (1, 8) => self.fused::<1, 1>(s, m, heat, &mut t),
                         (1, _) => self.fused::<1, 2>(s, m, heat, &mut t),

@@ -1,6 +1,11 @@
 //! Image files for soft proofs: reading PNG, JPEG and TIFF (grey or RGB, 8 or
-//! 16 bits per channel, optional alpha, embedded ICC profile) into a plain
-//! pixel buffer, and encoding proof and map images with an embedded profile.
+//! 16 bits per channel, optional alpha, embedded ICC profile; CMYK TIFF, 8 or
+//! 16 bits, without alpha) into a plain pixel buffer, and encoding proof and
+//! map images with an embedded profile.
+//!
+//! CMYK TIFF is decoded with the `tiff` crate directly: the image crate turns
+//! CMYK into RGB by a profile-free formula, which would discard the press
+//! data the proof needs.
 //!
 //! Samples are kept as bytes exactly as lcms2 reads them: 8-bit values, or
 //! 16-bit values in native byte order (lcms2's `TYPE_*_16`). Alpha is split
@@ -30,8 +35,6 @@ pub enum RasterError {
     Decode { path: String, detail: String },
     #[error("'{path}': {layout} images are not supported (grey or RGB, 8 or 16 bits per channel)")]
     Layout { path: String, layout: String },
-    #[error("'{path}': CMYK images are not supported: the proof takes screen images (RGB or grey)")]
-    Cmyk { path: String },
     #[error("'{path}': cannot encode the image: {detail}")]
     Encode { path: String, detail: String },
 }
@@ -86,7 +89,7 @@ pub struct RasterInfo {
     pub kind: FileKind,
     pub width: u32,
     pub height: u32,
-    /// 1 (grey) or 3 (RGB) colour channels.
+    /// 1 (grey), 3 (RGB) or 4 (CMYK, TIFF only) colour channels.
     pub channels: usize,
     /// 8 or 16 bits per channel.
     pub bits: u8,
@@ -105,7 +108,7 @@ impl RasterInfo {
     }
 }
 
-/// A decoded image: colour samples interleaved (grey or RGB), alpha apart.
+/// A decoded image: colour samples interleaved (grey, RGB or CMYK), alpha apart.
 #[derive(Clone, Debug)]
 pub struct Raster {
     pub info: RasterInfo,
@@ -156,7 +159,11 @@ fn layout_of(path: &Path, dec: &dyn ImageDecoder) -> Result<(usize, u8, bool), R
         dec.original_color_type(),
         ExtendedColorType::Cmyk8 | ExtendedColorType::Cmyk16
     ) {
-        return Err(RasterError::Cmyk { path: p });
+        // Reached only for CMYK that is not a plain separated TIFF.
+        return Err(RasterError::Layout {
+            path: p,
+            layout: format!("{:?}", dec.original_color_type()),
+        });
     }
     Ok(match dec.color_type() {
         ColorType::L8 => (1, 8, false),
@@ -202,12 +209,18 @@ fn info_of(path: &Path, kind: FileKind, dec: &mut dyn ImageDecoder) -> Result<Ra
 
 /// Reads what an image holds without decoding its pixels.
 pub fn probe(path: &Path) -> Result<RasterInfo, RasterError> {
+    if let Some(mut dec) = open_cmyk(path)? {
+        return cmyk_info(path, &mut dec);
+    }
     let (kind, mut dec) = open_decoder(path)?;
     info_of(path, kind, dec.as_mut())
 }
 
 /// Decodes an image.
 pub fn read(path: &Path) -> Result<Raster, RasterError> {
+    if let Some(mut dec) = open_cmyk(path)? {
+        return read_cmyk(path, &mut dec);
+    }
     let (kind, mut dec) = open_decoder(path)?;
     let info = info_of(path, kind, dec.as_mut())?;
     let total = usize::try_from(dec.total_bytes()).map_err(|_| RasterError::Layout {
@@ -226,6 +239,111 @@ pub fn read(path: &Path) -> Result<Raster, RasterError> {
         (buf, None)
     };
     Ok(Raster { info, color, alpha })
+}
+
+type TiffReader = tiff::decoder::Decoder<BufReader<File>>;
+
+/// A `tiff` decoder when `path` is a TIFF whose first image is CMYK; `None`
+/// for every other file, which the image crate reads.
+fn open_cmyk(path: &Path) -> Result<Option<TiffReader>, RasterError> {
+    let p = path_text(path);
+    let read_err = |source| RasterError::Read {
+        path: p.clone(),
+        source,
+    };
+    let mut head = [0u8; 4];
+    {
+        use std::io::Read;
+        let mut f = File::open(path).map_err(read_err)?;
+        let n = f.read(&mut head).map_err(read_err)?;
+        if n < 4 || FileKind::sniff(&head) != Some(FileKind::Tiff) {
+            return Ok(None);
+        }
+    }
+    let reader = BufReader::new(File::open(path).map_err(read_err)?);
+    let dec_err = |e: tiff::TiffError| RasterError::Decode {
+        path: p.clone(),
+        detail: e.to_string(),
+    };
+    let mut dec = tiff::decoder::Decoder::new(reader).map_err(dec_err)?;
+    let photometric = dec
+        .find_tag(tiff::tags::Tag::PhotometricInterpretation)
+        .map_err(dec_err)?
+        .and_then(|v| v.into_u16().ok());
+    // TIFF 6.0, section 16: PhotometricInterpretation 5 = separated (CMYK
+    // with the default InkSet).
+    if photometric != Some(tiff::tags::PhotometricInterpretation::CMYK.to_u16()) {
+        return Ok(None);
+    }
+    Ok(Some(dec))
+}
+
+fn cmyk_info(path: &Path, dec: &mut TiffReader) -> Result<RasterInfo, RasterError> {
+    let p = path_text(path);
+    let dec_err = |e: tiff::TiffError| RasterError::Decode {
+        path: p.clone(),
+        detail: e.to_string(),
+    };
+    let bits = match dec.colortype().map_err(dec_err)? {
+        tiff::ColorType::CMYK(8) => 8,
+        tiff::ColorType::CMYK(16) => 16,
+        other => {
+            return Err(RasterError::Layout {
+                path: p,
+                layout: format!("{other:?}"),
+            })
+        }
+    };
+    let (width, height) = dec.dimensions().map_err(dec_err)?;
+    if width == 0 || height == 0 {
+        return Err(RasterError::Layout {
+            path: p,
+            layout: "empty (0-pixel)".to_string(),
+        });
+    }
+    let icc = match dec.find_tag(tiff::tags::Tag::IccProfile).map_err(dec_err)? {
+        Some(v) => Some(v.into_u8_vec().map_err(dec_err)?),
+        None => None,
+    };
+    Ok(RasterInfo {
+        kind: FileKind::Tiff,
+        width,
+        height,
+        channels: 4,
+        bits,
+        has_alpha: false,
+        icc: icc.filter(|b| !b.is_empty()),
+    })
+}
+
+fn read_cmyk(path: &Path, dec: &mut TiffReader) -> Result<Raster, RasterError> {
+    let info = cmyk_info(path, dec)?;
+    let p = path_text(path);
+    let data = dec.read_image().map_err(|e| RasterError::Decode {
+        path: p.clone(),
+        detail: e.to_string(),
+    })?;
+    let color: Vec<u8> = match data {
+        tiff::decoder::DecodingResult::U8(v) if info.bits == 8 => v,
+        tiff::decoder::DecodingResult::U16(v) if info.bits == 16 => v.iter().flat_map(|x| x.to_ne_bytes()).collect(),
+        _ => {
+            return Err(RasterError::Decode {
+                path: p,
+                detail: "the samples do not match the declared bit depth".to_string(),
+            })
+        }
+    };
+    if color.len() != info.pixels() * 4 * info.bytes_per_sample() {
+        return Err(RasterError::Decode {
+            path: p,
+            detail: "the pixel data is shorter or longer than the image".to_string(),
+        });
+    }
+    Ok(Raster {
+        info,
+        color,
+        alpha: None,
+    })
 }
 
 /// Splits interleaved colour+alpha samples into a colour buffer and an alpha

@@ -28,7 +28,7 @@ pub struct ImageReport {
     pub width: u32,
     pub height: u32,
     pub bits: u8,
-    /// "rgb" or "grey" (of the input; proofs are always RGB).
+    /// "rgb", "grey" or "cmyk" (of the input; proofs are always RGB).
     pub channels: &'static str,
     pub alpha: bool,
     /// The profile the input pixels were read in.
@@ -52,9 +52,7 @@ pub struct ProofReport {
     pub images: Vec<ImageReport>,
 }
 
-fn f(v: f64, places: usize) -> String {
-    format!("{v:.places$}")
-}
+use crate::report::fixed as f;
 
 fn pct(share: f64) -> String {
     format!("{:.1}", share * 100.0)

@@ -133,15 +133,7 @@ impl Tally {
     }
 }
 
-fn round(v: f64, places: i32) -> f64 {
-    let f = 10f64.powi(places);
-    let r = (v * f).round() / f;
-    if r == 0.0 {
-        0.0
-    } else {
-        r
-    }
-}
+use crate::report::round;
 
 /// Shares (0..1) of pixels with ΔE00 above 1, 2, 3, 5 and 10.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
