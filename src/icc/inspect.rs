@@ -318,8 +318,8 @@ mod tests {
 
     #[test]
     fn bradford_d65_to_d50_matches_published_matrix() {
-        // Bradford D65 → D50 as tabulated by Lindbloom (from memory), the
-        // matrix CSS Color 4 also uses: first row 1.0478, 0.0229, -0.0501.
+        // Bradford D65 → D50 as the CSS Color 4 sample code gives it (from
+        // memory): first row 1.0478, 0.0229, -0.0501; [2][2] 0.7521.
         let d65 = [0.95047, 1.0, 1.08883];
         let m = bradford(d65, [0.96422, 1.0, 0.82521]);
         assert!((m[0][0] - 1.0478112).abs() < 1e-4, "{m:?}");
