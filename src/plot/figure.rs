@@ -221,6 +221,27 @@ fn axes(svg: &mut Svg, p: &Panel, step: [f64; 2], labels: [&str; 2], id: &str) {
     svg.close();
 }
 
+/// A new figure: wide enough for the legend that starts at `legend_x`, with
+/// the shared definitions (arrowhead, a clip path per panel) and the white
+/// page drawn.
+fn page(legend_x: f64, height: f64, clips: &[(String, Panel)]) -> Svg {
+    let width = (legend_x + 330.0).max(MIN_WIDTH);
+    let mut svg = Svg::new(width, height);
+    defs(&mut svg, clips);
+    svg.empty(
+        "rect",
+        &[
+            ("id", s("page")),
+            ("x", s("0")),
+            ("y", s("0")),
+            ("width", num(width)),
+            ("height", num(height)),
+            ("fill", s("#ffffff")),
+        ],
+    );
+    svg
+}
+
 fn defs(svg: &mut Svg, panels: &[(String, Panel)]) {
     svg.open("defs", &[]);
     svg.open(
@@ -324,15 +345,15 @@ fn legend(svg: &mut Svg, fig: &Figure, x: f64, y: f64) {
                 "collapsed" => svg.empty(
                     "line",
                     &[
-                        ("x1", num(x + 2.0)),
-                        ("y1", num(yy - 4.0)),
-                        ("x2", num(x + 26.0)),
-                        ("y2", num(yy - 4.0)),
-                        ("stroke", s("#b00020")),
-                        ("stroke-width", s("2.5")),
-                        ("stroke-dasharray", s("1 3")),
-                        ("stroke-linecap", s("round")),
-                    ],
+                        vec![
+                            ("x1", num(x + 2.0)),
+                            ("y1", num(yy - 4.0)),
+                            ("x2", num(x + 26.0)),
+                            ("y2", num(yy - 4.0)),
+                        ],
+                        collapsed_stroke(),
+                    ]
+                    .concat(),
                 ),
                 "arrow" => svg.empty(
                     "line",
@@ -354,6 +375,17 @@ fn legend(svg: &mut Svg, fig: &Figure, x: f64, y: f64) {
         }
     }
     svg.close();
+}
+
+/// The dotted line of a pair that collapses in print, in the figure and in
+/// its legend key.
+fn collapsed_stroke() -> Vec<(&'static str, String)> {
+    vec![
+        ("stroke", s("#b00020")),
+        ("stroke-width", s("2.5")),
+        ("stroke-dasharray", s("1 3")),
+        ("stroke-linecap", s("round")),
+    ]
 }
 
 fn marker(svg: &mut Svg, c: [f64; 2], cls: &str, fill: &str) {
@@ -498,21 +530,8 @@ fn chromaticity(fig: &Figure) -> String {
         yr,
     };
     let legend_x = p.x0 + p.w + 30.0;
-    let width = (legend_x + 330.0).max(MIN_WIDTH);
     let height = p.y0 + p.h + 110.0;
-    let mut svg = Svg::new(width, height);
-    defs(&mut svg, &[(s("plot-area"), p)]);
-    svg.empty(
-        "rect",
-        &[
-            ("id", s("page")),
-            ("x", s("0")),
-            ("y", s("0")),
-            ("width", num(width)),
-            ("height", num(height)),
-            ("fill", s("#ffffff")),
-        ],
-    );
+    let mut svg = page(legend_x, height, &[(s("plot-area"), p)]);
     let locus: Vec<(f64, [f64; 2])> = spectral_locus()
         .into_iter()
         .filter_map(|(nm, c)| map(c).map(|q| (nm, q)))
@@ -769,18 +788,18 @@ fn chromaticity(fig: &Figure) -> String {
             svg.empty(
                 "line",
                 &[
-                    ("class", s("collapsed-pair")),
-                    ("data-a", a.name.clone()),
-                    ("data-b", b.name.clone()),
-                    ("x1", num(pa[0])),
-                    ("y1", num(pa[1])),
-                    ("x2", num(pb[0])),
-                    ("y2", num(pb[1])),
-                    ("stroke", s("#b00020")),
-                    ("stroke-width", s("2.5")),
-                    ("stroke-dasharray", s("1 3")),
-                    ("stroke-linecap", s("round")),
-                ],
+                    vec![
+                        ("class", s("collapsed-pair")),
+                        ("data-a", a.name.clone()),
+                        ("data-b", b.name.clone()),
+                        ("x1", num(pa[0])),
+                        ("y1", num(pa[1])),
+                        ("x2", num(pb[0])),
+                        ("y2", num(pb[1])),
+                    ],
+                    collapsed_stroke(),
+                ]
+                .concat(),
             );
         }
         svg.close();
@@ -852,26 +871,13 @@ fn slices(fig: &Figure) -> String {
         })
         .collect();
     let legend_x = 80.0 + fig.lightness.len() as f64 * (size + gap) - gap + 30.0;
-    let width = (legend_x + 330.0).max(MIN_WIDTH);
     let height = 80.0 + size + 120.0;
-    let mut svg = Svg::new(width, height);
     let clips: Vec<(String, Panel)> = panels
         .iter()
         .enumerate()
         .map(|(k, p)| (format!("panel-{}", k + 1), *p))
         .collect();
-    defs(&mut svg, &clips);
-    svg.empty(
-        "rect",
-        &[
-            ("id", s("page")),
-            ("x", s("0")),
-            ("y", s("0")),
-            ("width", num(width)),
-            ("height", num(height)),
-            ("fill", s("#ffffff")),
-        ],
-    );
+    let mut svg = page(legend_x, height, &clips);
     for (k, (&l, p)) in fig.lightness.iter().zip(&panels).enumerate() {
         let id = format!("panel-{}", k + 1);
         svg.open(
@@ -969,21 +975,8 @@ fn leaf(fig: &Figure) -> String {
         yr: [0.0, 100.0],
     };
     let legend_x = p.x0 + p.w + 30.0;
-    let width = (legend_x + 330.0).max(MIN_WIDTH);
     let height = p.y0 + p.h + 110.0;
-    let mut svg = Svg::new(width, height);
-    defs(&mut svg, &[(s("plot-area"), p)]);
-    svg.empty(
-        "rect",
-        &[
-            ("id", s("page")),
-            ("x", s("0")),
-            ("y", s("0")),
-            ("width", num(width)),
-            ("height", num(height)),
-            ("fill", s("#ffffff")),
-        ],
-    );
+    let mut svg = page(legend_x, height, &[(s("plot-area"), p)]);
     axes(
         &mut svg,
         &p,
