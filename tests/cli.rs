@@ -1,51 +1,10 @@
 //! Integration tests: the real `inkfit` binary on temporary folders.
 
+mod common;
+use common::*;
+
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output, Stdio};
-
-use serde_json::Value;
-
-fn bin() -> Command {
-    let mut c = Command::new(env!("CARGO_BIN_EXE_inkfit"));
-    c.env("NO_COLOR", "1");
-    c
-}
-
-fn run(args: &[&str]) -> Output {
-    bin().args(args).output().expect("inkfit runs")
-}
-
-fn demo(name: &str) -> String {
-    Path::new(env!("CARGO_MANIFEST_DIR"))
-        .join("fixtures/demo")
-        .join(name)
-        .display()
-        .to_string()
-}
-
-fn stdout(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stdout).into_owned()
-}
-
-fn stderr(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stderr).into_owned()
-}
-
-fn json(o: &Output) -> Value {
-    serde_json::from_slice(&o.stdout).unwrap_or_else(|e| panic!("not JSON ({e}):\n{}", stdout(o)))
-}
-
-/// Asserts a clean failure: exit 2, one line on stderr that mentions each of `needles`.
-fn assert_error(o: &Output, needles: &[&str]) {
-    let err = stderr(o);
-    assert_eq!(o.status.code(), Some(2), "exit code; stderr: {err}");
-    assert_eq!(err.trim_end().lines().count(), 1, "one line expected:\n{err}");
-    assert!(err.starts_with("inkfit: error: "), "{err}");
-    for n in needles {
-        assert!(err.contains(n), "stderr should mention {n:?}:\n{err}");
-    }
-    assert!(!err.contains("panicked"), "{err}");
-}
+use std::process::Stdio;
 
 fn temp_file(dir: &Path, name: &str, bytes: &[u8]) -> PathBuf {
     let p = dir.join(name);

@@ -3,7 +3,9 @@
 //! searches over sampled ink combinations, the press's own round trip, and
 //! the glTF 2.0 / PLY file structure; plus the `inkfit gamut` binary.
 
-use std::process::Command;
+mod common;
+use common::*;
+
 use std::sync::OnceLock;
 
 use inkfit::color::LabD50;
@@ -542,12 +544,6 @@ fn ply_header_counts_match_the_body() {
     assert_eq!(lines.len(), m.vertices.len() + m.triangles.len());
     assert_eq!(lines[0].split(' ').count(), 6);
     assert!(lines[m.vertices.len()].starts_with("3 "));
-}
-
-fn bin() -> Command {
-    let mut c = Command::new(env!("CARGO_BIN_EXE_inkfit"));
-    c.env("NO_COLOR", "1");
-    c
 }
 
 #[test]

@@ -2,8 +2,10 @@
 //! outline and contour geometry against independent computations, the SVG
 //! structure, golden files, a render of every kind, and the command line.
 
+mod common;
+use common::*;
+
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
 use std::sync::OnceLock;
 
 use inkfit::color::Xy;
@@ -534,33 +536,6 @@ fn every_kind_renders_to_a_non_empty_png() {
 }
 
 // ------------------------------------------------------------------ CLI
-
-fn bin() -> Command {
-    let mut c = Command::new(env!("CARGO_BIN_EXE_inkfit"));
-    c.env("NO_COLOR", "1");
-    c
-}
-
-fn run(args: &[&str]) -> Output {
-    bin().args(args).output().expect("inkfit runs")
-}
-
-fn demo(name: &str) -> String {
-    Path::new(env!("CARGO_MANIFEST_DIR"))
-        .join("fixtures/demo")
-        .join(name)
-        .display()
-        .to_string()
-}
-
-fn assert_error(o: &Output, needles: &[&str]) {
-    let err = String::from_utf8_lossy(&o.stderr);
-    assert_eq!(o.status.code(), Some(2), "exit code; stderr: {err}");
-    assert_eq!(err.trim_end().lines().count(), 1, "one line expected:\n{err}");
-    for n in needles {
-        assert!(err.contains(n), "stderr should mention {n:?}:\n{err}");
-    }
-}
 
 #[test]
 fn cli_plot_writes_each_kind() {

@@ -1,8 +1,10 @@
 //! Soft proofs: the library's proof engine against independent computations,
 //! and the `proof` subcommand run as the real binary on temporary folders.
 
+mod common;
+use common::*;
+
 use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
 
 use image::codecs::png::PngEncoder;
 use image::codecs::tiff::{TiffDecoder, TiffEncoder};
@@ -11,38 +13,6 @@ use inkfit::icc::transform::PressMapping;
 use inkfit::icc::{IccProfile, RenderingIntent};
 use inkfit::proof::raster::{self, Raster};
 use inkfit::proof::{Method, ProofEngine};
-use serde_json::Value;
-
-fn bin() -> Command {
-    let mut c = Command::new(env!("CARGO_BIN_EXE_inkfit"));
-    c.env("NO_COLOR", "1");
-    c
-}
-
-fn run(args: &[&str]) -> Output {
-    bin().args(args).output().expect("inkfit runs")
-}
-
-fn stderr(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stderr).into_owned()
-}
-
-fn json(o: &Output) -> Value {
-    serde_json::from_slice(&o.stdout)
-        .unwrap_or_else(|e| panic!("not JSON ({e}):\n{}\n{}", String::from_utf8_lossy(&o.stdout), stderr(o)))
-}
-
-/// A clean failure: exit 2, one line naming `needles`, no panic.
-fn assert_error(o: &Output, needles: &[&str]) {
-    let err = stderr(o);
-    assert_eq!(o.status.code(), Some(2), "exit code; stderr: {err}");
-    assert_eq!(err.trim_end().lines().count(), 1, "one line expected:\n{err}");
-    assert!(err.starts_with("inkfit: error: "), "{err}");
-    for n in needles {
-        assert!(err.contains(n), "stderr should mention {n:?}:\n{err}");
-    }
-    assert!(!err.contains("panicked"), "{err}");
-}
 
 fn builtin(name: &str) -> IccProfile {
     IccProfile::load(name).unwrap()

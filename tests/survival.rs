@@ -2,8 +2,10 @@
 //! published matrices and a reference library, separation, order, repair
 //! invariants, and the `check` / `repair` command lines.
 
+mod common;
+use common::*;
+
 use std::path::Path;
-use std::process::Command;
 
 use inkfit::color::cvd::{matrix, Deficiency, Simulator};
 use inkfit::color::delta::delta_e00;
@@ -189,20 +191,6 @@ fn an_already_printable_palette_comes_back_unchanged() {
     assert!(r.unchanged && r.all_met());
     assert_eq!(repaired, palette);
     assert!(r.entries.iter().all(|e| !e.changed && e.moved == 0.0));
-}
-
-fn bin() -> Command {
-    let mut c = Command::new(env!("CARGO_BIN_EXE_inkfit"));
-    c.env("NO_COLOR", "1");
-    c
-}
-
-fn demo(name: &str) -> String {
-    Path::new(env!("CARGO_MANIFEST_DIR"))
-        .join("fixtures/demo")
-        .join(name)
-        .display()
-        .to_string()
 }
 
 #[test]

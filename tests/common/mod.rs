@@ -1,0 +1,54 @@
+//! Helpers shared by the integration tests: running the real `inkfit`
+//! binary, reading its output, and the demo files.
+// Each test crate uses its own subset of these.
+#![allow(dead_code)]
+
+use std::path::Path;
+use std::process::{Command, Output};
+
+use serde_json::Value;
+
+/// The `inkfit` binary with colour output off.
+pub fn bin() -> Command {
+    let mut c = Command::new(env!("CARGO_BIN_EXE_inkfit"));
+    c.env("NO_COLOR", "1");
+    c
+}
+
+pub fn run(args: &[&str]) -> Output {
+    bin().args(args).output().expect("inkfit runs")
+}
+
+/// Path of a file of the demo scenario.
+pub fn demo(name: &str) -> String {
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("fixtures/demo")
+        .join(name)
+        .display()
+        .to_string()
+}
+
+pub fn stdout(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stdout).into_owned()
+}
+
+pub fn stderr(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stderr).into_owned()
+}
+
+pub fn json(o: &Output) -> Value {
+    serde_json::from_slice(&o.stdout).unwrap_or_else(|e| panic!("not JSON ({e}):\n{}\n{}", stdout(o), stderr(o)))
+}
+
+/// A clean failure: exit 2, one line on stderr that mentions each of
+/// `needles`, no panic.
+pub fn assert_error(o: &Output, needles: &[&str]) {
+    let err = stderr(o);
+    assert_eq!(o.status.code(), Some(2), "exit code; stderr: {err}");
+    assert_eq!(err.trim_end().lines().count(), 1, "one line expected:\n{err}");
+    assert!(err.starts_with("inkfit: error: "), "{err}");
+    for n in needles {
+        assert!(err.contains(n), "stderr should mention {n:?}:\n{err}");
+    }
+    assert!(!err.contains("panicked"), "{err}");
+}
