@@ -6,9 +6,8 @@ use serde::Serialize;
 
 use super::check::CheckReport;
 use super::order::{order, Order, Scheme};
-use super::separation::{pair_flags, round2, separation, FlaggedPair, Separation};
+use super::separation::{round2, separation, FlaggedPair, Separation};
 use crate::color::cvd::{Deficiency, Simulator};
-use crate::color::delta::delta_e00;
 use crate::color::LabD50;
 
 /// What to check beyond the per-colour results.
@@ -131,37 +130,14 @@ pub struct Survival {
 pub fn cvd_separation(sim: &Simulator, names: &[String], screen: &[LabD50], print: &[LabD50], floor: f64) -> CvdResult {
     let s: Vec<LabD50> = screen.iter().map(|&l| sim.lab(l)).collect();
     let p: Vec<LabD50> = print.iter().map(|&l| sim.lab(l)).collect();
-    let mut flagged = Vec::new();
-    let (mut min_s, mut min_p) = (f64::INFINITY, f64::INFINITY);
-    for i in 0..p.len() {
-        for j in i + 1..p.len() {
-            let ds = delta_e00(s[i], s[j]);
-            let dp = delta_e00(p[i], p[j]);
-            min_s = min_s.min(ds);
-            min_p = min_p.min(dp);
-            let (below_floor, lost_half) = pair_flags(ds, dp, floor);
-            if below_floor || lost_half {
-                flagged.push(FlaggedPair {
-                    a: i + 1,
-                    b: j + 1,
-                    a_name: names.get(i).cloned().unwrap_or_default(),
-                    b_name: names.get(j).cloned().unwrap_or_default(),
-                    screen: round2(ds),
-                    print: round2(dp),
-                    below_floor,
-                    lost_half,
-                });
-            }
-        }
-    }
-    flagged.sort_by(|x, y| x.print.total_cmp(&y.print).then((x.a, x.b).cmp(&(y.a, y.b))));
-    let fin = |v: f64| if v.is_finite() { round2(v) } else { 0.0 };
+    // The same pair analysis as for normal vision, on the simulated colours.
+    let sep = separation(names, &s, &p, floor);
     CvdResult {
         severity: sim.severity,
         simulated_lab: p.iter().map(|l| l.to_array().map(round2)).collect(),
-        min_screen: fin(min_s),
-        min_print: fin(min_p),
-        flagged,
+        min_screen: sep.min_screen,
+        min_print: sep.min_print,
+        flagged: sep.flagged,
     }
 }
 
