@@ -6,7 +6,7 @@ use std::io::{IsTerminal, Write};
 use super::{BuildPressArgs, CheckArgs, Cli, Command, DeltaArgs, InspectArgs, ProfilesArgs};
 use crate::color::css::parse_color;
 use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
-use crate::icc::transform::{resolve_lab, PressMapping};
+use crate::icc::transform::resolve_lab;
 use crate::icc::{builtin, inspect, IccProfile};
 use crate::report::{self, DeltaColor, DeltaReport};
 use crate::swatch::check::{check_against, CheckOptions};
@@ -57,11 +57,7 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
     let opts = CheckOptions {
-        mapping: PressMapping {
-            intent: a.intent.into(),
-            bpc: !a.no_bpc,
-            paper_white: a.paper_white,
-        },
+        mapping: a.mapping.mapping(a.paper_white),
         tolerance: a.tolerance,
     };
     let press_gamut = match a.gamut_test {

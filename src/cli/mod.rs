@@ -79,18 +79,37 @@ pub struct ProfileArgs {
     pub press: String,
 }
 
+/// How screen colours are sent to the press: `--intent` and `--no-bpc`.
 #[derive(Args, Debug)]
-pub struct CheckArgs {
-    /// Palette file: .csv (with a header naming a colour column), .json (array of {"name","color"}) or plain text.
-    pub palette: PathBuf,
-    #[command(flatten)]
-    pub profiles: ProfileArgs,
+pub struct MappingArgs {
     /// Rendering intent from screen to press.
     #[arg(long, value_enum, default_value = "relative")]
     pub intent: IntentArg,
     /// Turn black point compensation off (it is on by default).
     #[arg(long)]
     pub no_bpc: bool,
+}
+
+impl MappingArgs {
+    /// The mapping, shown media-relative or, with `paper_white`, on the
+    /// paper's own white.
+    pub fn mapping(&self, paper_white: bool) -> crate::icc::transform::PressMapping {
+        crate::icc::transform::PressMapping {
+            intent: self.intent.into(),
+            bpc: !self.no_bpc,
+            paper_white,
+        }
+    }
+}
+
+#[derive(Args, Debug)]
+pub struct CheckArgs {
+    /// Palette file: .csv (with a header naming a colour column), .json (array of {"name","color"}) or plain text.
+    pub palette: PathBuf,
+    #[command(flatten)]
+    pub profiles: ProfileArgs,
+    #[command(flatten)]
+    pub mapping: MappingArgs,
     /// Largest acceptable CIEDE2000 between screen and print. The default 3.0 is a rule of thumb, not a standard.
     #[arg(long, value_name = "ΔE00", default_value_t = crate::swatch::check::DEFAULT_TOLERANCE)]
     pub tolerance: f64,

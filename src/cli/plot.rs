@@ -7,7 +7,7 @@ use std::path::{Path, PathBuf};
 use clap::Args;
 
 use super::commands::{Error, Outcome};
-use super::IntentArg;
+use super::MappingArgs;
 use crate::gamut::Gamut;
 use crate::icc::transform::{resolve_lab, PressMapping};
 use crate::icc::IccProfile;
@@ -34,12 +34,8 @@ pub struct PlotArgs {
     /// Press profile: with it, arrows show where the press puts each colour and out-of-gamut colours are marked.
     #[arg(long, value_name = "PROFILE")]
     pub press: Option<String>,
-    /// Rendering intent from screen to press.
-    #[arg(long, value_enum, default_value = "relative")]
-    pub intent: IntentArg,
-    /// Turn black point compensation off (it is on by default).
-    #[arg(long)]
-    pub no_bpc: bool,
+    #[command(flatten)]
+    pub mapping: MappingArgs,
     /// L* of the a*b* slices (ab), comma-separated, each 0–100.
     #[arg(long, value_name = "L,L,…", default_value = "30,50,70")]
     pub lightness: String,
@@ -127,11 +123,7 @@ pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
         Some(s) => Some(IccProfile::load(s)?.require_press()?),
         None => None,
     };
-    let mapping = PressMapping {
-        intent: a.intent.into(),
-        bpc: !a.no_bpc,
-        paper_white: false,
-    };
+    let mapping = a.mapping.mapping(false);
     // Compute.
     let press_gamut = match (&press, &palette) {
         (Some(p), Some(_)) => Some(Gamut::of_profile(p, Default::default())?),

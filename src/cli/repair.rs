@@ -8,9 +8,8 @@ use std::path::PathBuf;
 use clap::{Args, ValueEnum};
 
 use super::commands::{Error, Outcome};
-use super::{IntentArg, ProfileArgs};
+use super::{MappingArgs, ProfileArgs};
 use crate::color::cvd::Deficiency;
-use crate::icc::transform::PressMapping;
 use crate::icc::IccProfile;
 use crate::report::table::{Align, Table, Tone};
 use crate::swatch::check::CheckReport;
@@ -110,12 +109,8 @@ pub struct RepairArgs {
     pub out: PathBuf,
     #[command(flatten)]
     pub profiles: ProfileArgs,
-    /// Rendering intent from screen to press.
-    #[arg(long, value_enum, default_value = "relative")]
-    pub intent: IntentArg,
-    /// Turn black point compensation off (it is on by default).
-    #[arg(long)]
-    pub no_bpc: bool,
+    #[command(flatten)]
+    pub mapping: MappingArgs,
     #[command(flatten)]
     pub survival: SurvivalArgs,
     /// Write the report as JSON instead of a table.
@@ -138,11 +133,7 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
     let gamut = crate::gamut::Gamut::of_profile(&press, Default::default())?;
     let opts = RepairOptions {
         survival: sopts,
-        mapping: PressMapping {
-            intent: a.intent.into(),
-            bpc: !a.no_bpc,
-            paper_white: false,
-        },
+        mapping: a.mapping.mapping(false),
         iterations: ITERATIONS,
     };
     let (r, _, _) = repair(&palette, &screen, &press, &gamut, &opts)?;
