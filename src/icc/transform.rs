@@ -185,44 +185,46 @@ pub fn resolve_lab(
     use crate::color::css::ColorInput;
     let lab = lab_d50_profile();
     let rel = RenderingIntent::Relative;
+    fn to_lab<I: Copy + lcms2::Pod>(
+        p: &IccProfile,
+        fmt: PixelFormat,
+        lab: &Profile,
+        what: &'static str,
+    ) -> Result<Transform<I, Lab>, IccError> {
+        let rel = RenderingIntent::Relative;
+        Transform::new(&p.lcms, fmt, lab, PixelFormat::Lab_DBL, rel.to_lcms()).map_err(|_| IccError::Transform {
+            name: p.name.clone(),
+            what,
+            intent: rel,
+        })
+    }
+    // Each transform is built once, and only when an input needs it.
+    let mut from_screen: Option<Transform<Rgb, Lab>> = None;
+    let mut from_press: Option<Transform<Cmyk, Lab>> = None;
     let mut out = Vec::with_capacity(inputs.len());
     for input in inputs {
         out.push(match *input {
             ColorInput::Lab(l) => l,
             ColorInput::ScreenRgb(rgb) => {
-                let t: Transform<Rgb, Lab> = Transform::new(
-                    &screen.lcms,
-                    PixelFormat::RGB_DBL,
-                    &lab,
-                    PixelFormat::Lab_DBL,
-                    rel.to_lcms(),
-                )
-                .map_err(|_| IccError::Transform {
-                    name: screen.name.clone(),
-                    what: "screen → CIELAB",
-                    intent: rel,
-                })?;
-                LabD50::from_array(run(&t, &[rgb])[0])
+                let t = match &from_screen {
+                    Some(t) => t,
+                    None => from_screen.insert(to_lab(screen, PixelFormat::RGB_DBL, &lab, "screen → CIELAB")?),
+                };
+                LabD50::from_array(run(t, &[rgb])[0])
             }
             ColorInput::DeviceCmyk(cmyk) => {
-                let press = press.ok_or_else(|| IccError::Transform {
-                    name: "(no press profile)".to_string(),
-                    what: "press → CIELAB",
-                    intent: rel,
-                })?;
-                let t: Transform<Cmyk, Lab> = Transform::new(
-                    &press.lcms,
-                    PixelFormat::CMYK_DBL,
-                    &lab,
-                    PixelFormat::Lab_DBL,
-                    rel.to_lcms(),
-                )
-                .map_err(|_| IccError::Transform {
-                    name: press.name.clone(),
-                    what: "press → CIELAB",
-                    intent: rel,
-                })?;
-                LabD50::from_array(run(&t, &[cmyk])[0])
+                let t = match &from_press {
+                    Some(t) => t,
+                    None => {
+                        let press = press.ok_or_else(|| IccError::Transform {
+                            name: "(no press profile)".to_string(),
+                            what: "press → CIELAB",
+                            intent: rel,
+                        })?;
+                        from_press.insert(to_lab(press, PixelFormat::CMYK_DBL, &lab, "press → CIELAB")?)
+                    }
+                };
+                LabD50::from_array(run(t, &[cmyk])[0])
             }
         });
     }

@@ -146,7 +146,18 @@ pub fn check_against(
 
     // The boundary test and the distance to the gamut, in parallel: the
     // nearest-point search dominates a check of many out-of-gamut colours.
-    let judged: Option<Vec<(bool, f64)>> = press_gamut.map(|g| screen_lab.par_iter().map(|&l| g.judge(l)).collect());
+    // Press colours are printable by definition.
+    let judged: Option<Vec<(bool, f64)>> = press_gamut.map(|g| {
+        palette
+            .entries
+            .par_iter()
+            .zip(&screen_lab)
+            .map(|(e, &l)| match e.color {
+                ColorInput::DeviceCmyk(_) => (true, 0.0),
+                _ => g.judge(l),
+            })
+            .collect()
+    });
     let mut entries = Vec::with_capacity(n);
     for (i, e) in palette.entries.iter().enumerate() {
         let de = delta_e00(screen_lab[i], printed[i]);
@@ -155,10 +166,9 @@ pub fn check_against(
             ColorInput::DeviceCmyk(_) => 0.0,
             _ => delta_e00(screen_lab[i], round_trip[i]),
         };
-        let (in_gamut, outside_by) = match (&judged, e.color) {
-            (Some(_), ColorInput::DeviceCmyk(_)) => (true, Some(0.0)),
-            (Some(j), _) => (j[i].0, Some(round(j[i].1, 2))),
-            (None, _) => (rt <= ROUND_TRIP_THRESHOLD, None),
+        let (in_gamut, outside_by) = match &judged {
+            Some(j) => (j[i].0, Some(round(j[i].1, 2))),
+            None => (rt <= ROUND_TRIP_THRESHOLD, None),
         };
         entries.push(CheckedEntry {
             name: e.name.clone(),
