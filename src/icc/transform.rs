@@ -44,80 +44,50 @@ pub struct PressTransforms {
     press_to_lab_colorimetric: Transform<Cmyk, Lab>,
 }
 
-fn flags(bpc: bool) -> Flags {
-    if bpc {
+/// One end of a transform: a profile and the pixel format of its side.
+type End<'a> = (&'a Profile, PixelFormat);
+
+/// Builds one lcms2 transform; a failure is reported against `blamed`.
+fn build<I: Copy + lcms2::Pod, O: Copy + lcms2::Pod>(
+    from: End,
+    to: End,
+    intent: RenderingIntent,
+    bpc: bool,
+    blamed: &IccProfile,
+    what: &'static str,
+) -> Result<Transform<I, O>, IccError> {
+    let flags = if bpc {
         Flags::BLACKPOINT_COMPENSATION
     } else {
         Flags::default()
-    }
+    };
+    Transform::new_flags(from.0, from.1, to.0, to.1, intent.to_lcms(), flags).map_err(|_| IccError::Transform {
+        name: blamed.name.clone(),
+        what,
+        intent,
+    })
 }
 
 impl PressTransforms {
     pub fn new(screen: &IccProfile, press: &IccProfile, mapping: PressMapping) -> Result<Self, IccError> {
         let lab = lab_d50_profile();
         let rel = RenderingIntent::Relative;
-        let err = |p: &IccProfile, what: &'static str, intent| IccError::Transform {
-            name: p.name.clone(),
-            what,
-            intent,
-        };
-        let intent = mapping.intent.to_lcms();
         let shown = if mapping.paper_white {
             RenderingIntent::Absolute
         } else {
             rel
         };
+        let (i, bpc) = (mapping.intent, mapping.bpc);
+        let s = (&screen.lcms, PixelFormat::RGB_DBL);
+        let p = (&press.lcms, PixelFormat::CMYK_DBL);
+        let l = (&lab, PixelFormat::Lab_DBL);
         Ok(Self {
-            screen_to_lab: Transform::new(
-                &screen.lcms,
-                PixelFormat::RGB_DBL,
-                &lab,
-                PixelFormat::Lab_DBL,
-                rel.to_lcms(),
-            )
-            .map_err(|_| err(screen, "screen → CIELAB", rel))?,
-            screen_to_press: Transform::new_flags(
-                &screen.lcms,
-                PixelFormat::RGB_DBL,
-                &press.lcms,
-                PixelFormat::CMYK_DBL,
-                intent,
-                flags(mapping.bpc),
-            )
-            .map_err(|_| err(press, "screen → press", mapping.intent))?,
-            lab_to_press: Transform::new_flags(
-                &lab,
-                PixelFormat::Lab_DBL,
-                &press.lcms,
-                PixelFormat::CMYK_DBL,
-                intent,
-                flags(mapping.bpc),
-            )
-            .map_err(|_| err(press, "CIELAB → press", mapping.intent))?,
-            press_to_lab: Transform::new(
-                &press.lcms,
-                PixelFormat::CMYK_DBL,
-                &lab,
-                PixelFormat::Lab_DBL,
-                shown.to_lcms(),
-            )
-            .map_err(|_| err(press, "press → CIELAB", shown))?,
-            lab_to_press_colorimetric: Transform::new(
-                &lab,
-                PixelFormat::Lab_DBL,
-                &press.lcms,
-                PixelFormat::CMYK_DBL,
-                rel.to_lcms(),
-            )
-            .map_err(|_| err(press, "CIELAB → press", rel))?,
-            press_to_lab_colorimetric: Transform::new(
-                &press.lcms,
-                PixelFormat::CMYK_DBL,
-                &lab,
-                PixelFormat::Lab_DBL,
-                rel.to_lcms(),
-            )
-            .map_err(|_| err(press, "press → CIELAB", rel))?,
+            screen_to_lab: build(s, l, rel, false, screen, "screen → CIELAB")?,
+            screen_to_press: build(s, p, i, bpc, press, "screen → press")?,
+            lab_to_press: build(l, p, i, bpc, press, "CIELAB → press")?,
+            press_to_lab: build(p, l, shown, false, press, "press → CIELAB")?,
+            lab_to_press_colorimetric: build(l, p, rel, false, press, "CIELAB → press")?,
+            press_to_lab_colorimetric: build(p, l, rel, false, press, "press → CIELAB")?,
         })
     }
 
@@ -185,19 +155,7 @@ pub fn resolve_lab(
     use crate::color::css::ColorInput;
     let lab = lab_d50_profile();
     let rel = RenderingIntent::Relative;
-    fn to_lab<I: Copy + lcms2::Pod>(
-        p: &IccProfile,
-        fmt: PixelFormat,
-        lab: &Profile,
-        what: &'static str,
-    ) -> Result<Transform<I, Lab>, IccError> {
-        let rel = RenderingIntent::Relative;
-        Transform::new(&p.lcms, fmt, lab, PixelFormat::Lab_DBL, rel.to_lcms()).map_err(|_| IccError::Transform {
-            name: p.name.clone(),
-            what,
-            intent: rel,
-        })
-    }
+    let l = (&lab, PixelFormat::Lab_DBL);
     // Each transform is built once, and only when an input needs it.
     let mut from_screen: Option<Transform<Rgb, Lab>> = None;
     let mut from_press: Option<Transform<Cmyk, Lab>> = None;
@@ -208,7 +166,14 @@ pub fn resolve_lab(
             ColorInput::ScreenRgb(rgb) => {
                 let t = match &from_screen {
                     Some(t) => t,
-                    None => from_screen.insert(to_lab(screen, PixelFormat::RGB_DBL, &lab, "screen → CIELAB")?),
+                    None => from_screen.insert(build(
+                        (&screen.lcms, PixelFormat::RGB_DBL),
+                        l,
+                        rel,
+                        false,
+                        screen,
+                        "screen → CIELAB",
+                    )?),
                 };
                 LabD50::from_array(run(t, &[rgb])[0])
             }
@@ -221,7 +186,14 @@ pub fn resolve_lab(
                             what: "press → CIELAB",
                             intent: rel,
                         })?;
-                        from_press.insert(to_lab(press, PixelFormat::CMYK_DBL, &lab, "press → CIELAB")?)
+                        from_press.insert(build(
+                            (&press.lcms, PixelFormat::CMYK_DBL),
+                            l,
+                            rel,
+                            false,
+                            press,
+                            "press → CIELAB",
+                        )?)
                     }
                 };
                 LabD50::from_array(run(t, &[cmyk])[0])
