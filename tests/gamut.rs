@@ -179,6 +179,21 @@ fn coverage_of_two_matrix_gamuts_matches_dense_sampling() {
     assert!((s_in_p.intersection_volume / ref_volume - 1.0).abs() < 0.005);
 }
 
+/// sRGB (encoded 0..1) → CIELAB D50 through the built-in profile, relative colorimetric.
+fn srgb_lab(rgb: &[[f64; 3]]) -> Vec<[f64; 3]> {
+    let t: Transform<[f64; 3], [f64; 3]> = Transform::new(
+        &profile("srgb").lcms,
+        PixelFormat::RGB_DBL,
+        &lab_d50_profile(),
+        PixelFormat::Lab_DBL,
+        RenderingIntent::Relative.to_lcms(),
+    )
+    .unwrap();
+    let mut out = vec![[0.0; 3]; rgb.len()];
+    t.transform_pixels(rgb, &mut out);
+    out
+}
+
 fn press_lab(p: &IccProfile, cmyk: &[[f64; 4]]) -> Vec<[f64; 3]> {
     let lab = lab_d50_profile();
     let t: Transform<[f64; 4], [f64; 3]> = Transform::new(
@@ -224,18 +239,8 @@ fn every_sampled_device_colour_is_inside_its_own_gamut() {
         "only {strictly} strictly inside"
     );
 
-    let s = profile("srgb");
-    let t: Transform<[f64; 3], [f64; 3]> = Transform::new(
-        &s.lcms,
-        PixelFormat::RGB_DBL,
-        &lab_d50_profile(),
-        PixelFormat::Lab_DBL,
-        RenderingIntent::Relative.to_lcms(),
-    )
-    .unwrap();
     let rgb: Vec<[f64; 3]> = (0..1500).map(|_| [0; 3].map(|_| rng.next())).collect();
-    let mut lab = vec![[0.0; 3]; rgb.len()];
-    t.transform_pixels(&rgb, &mut lab);
+    let lab = srgb_lab(&rgb);
     for (c, l) in rgb.iter().zip(&lab) {
         assert!(srgb().judge(LabD50::from_array(*l)).0, "RGB {c:?} judged outside");
     }
@@ -245,18 +250,8 @@ fn every_sampled_device_colour_is_inside_its_own_gamut() {
 fn srgb_primaries_are_outside_offset_and_its_solids_inside() {
     // Common practice: offset on coated paper cannot print the sRGB red,
     // green and blue primaries; its own solid inks and overprints it can.
-    let s = profile("srgb");
-    let t: Transform<[f64; 3], [f64; 3]> = Transform::new(
-        &s.lcms,
-        PixelFormat::RGB_DBL,
-        &lab_d50_profile(),
-        PixelFormat::Lab_DBL,
-        RenderingIntent::Relative.to_lcms(),
-    )
-    .unwrap();
     let prim = [[1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]];
-    let mut lab = [[0.0; 3]; 3];
-    t.transform_pixels(&prim, &mut lab);
+    let lab = srgb_lab(&prim);
     for (c, l) in prim.iter().zip(lab) {
         let d = press().outside_by(LabD50::from_array(l));
         assert!(d > 3.0, "sRGB {c:?} only {d} outside");
