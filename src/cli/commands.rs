@@ -2,12 +2,14 @@
 //! compute, then render to stdout.
 
 use std::io::{IsTerminal, Write};
+use std::path::Path;
 
 use super::{BuildPressArgs, CheckArgs, Cli, Command, DeltaArgs, InspectArgs, ProfilesArgs};
 use crate::color::css::parse_color;
 use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
 use crate::icc::transform::resolve_lab;
 use crate::icc::{builtin, inspect, IccProfile};
+use crate::io::Outputs;
 use crate::report::{self, DeltaColor, DeltaReport};
 use crate::swatch::check::{check_against, CheckOptions};
 use crate::swatch::Palette;
@@ -24,6 +26,21 @@ pub type Error = Box<dyn std::error::Error + Send + Sync>;
 
 fn use_color() -> bool {
     std::io::stdout().is_terminal() && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
+}
+
+/// The output guard of a run, knowing its input files: `files` as given and
+/// the profiles read from files.
+pub(super) fn guarded_outputs(files: &[&Path], profiles: &[&IccProfile]) -> Outputs {
+    let mut o = Outputs::new();
+    for f in files {
+        o.input(f);
+    }
+    for p in profiles {
+        if let Some(f) = p.file() {
+            o.input(f);
+        }
+    }
+    o
 }
 
 fn round4(v: f64) -> f64 {
@@ -56,6 +73,10 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     let palette = Palette::read(&a.palette)?;
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
+    let mut outputs = guarded_outputs(&[&a.palette], &[&screen, &press]);
+    if let Some(p) = &a.svg {
+        outputs.claim(p)?;
+    }
     let opts = CheckOptions {
         mapping: a.mapping.mapping(a.paper_white),
         tolerance: a.tolerance,
@@ -75,8 +96,9 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             .map(|f| [f.a - 1, f.b - 1])
             .collect();
         let fig = super::plot::check_figure(&r, &screen, &press, press_gamut.as_ref(), opts.mapping, &collapsed)?;
-        super::plot::write_figure(p, &fig)?;
+        super::plot::stage_figure(&mut outputs, p, &fig)?;
     }
+    outputs.commit()?;
     super::repair::finish_check(&r, &s, a.json, a.strict, use_color(), out)
 }
 
@@ -139,8 +161,10 @@ fn run_profiles(a: ProfilesArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
 fn run_build_press(a: BuildPressArgs) -> Result<Outcome, Error> {
     let cond =
         crate::press::builtin_press(&a.name).ok_or_else(|| format!("no built-in press condition '{}'", a.name))?;
+    let mut outputs = Outputs::new();
+    outputs.claim(&a.out)?;
     let bytes = crate::press::build_icc(&cond)?;
-    crate::io::write_atomic(&a.out, |w| w.write_all(&bytes))
-        .map_err(|e| format!("cannot write '{}': {e}", a.out.display()))?;
+    outputs.stage_bytes(&a.out, &bytes)?;
+    outputs.commit()?;
     Ok(Outcome::Done)
 }

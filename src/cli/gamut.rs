@@ -53,6 +53,16 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         .iter()
         .map(|s| IccProfile::load(s))
         .collect::<Result<Vec<_>, _>>()?;
+    let refs: Vec<&IccProfile> = profiles.iter().collect();
+    let mut outputs = super::commands::guarded_outputs(&[], &refs);
+    if let Some(base) = &a.mesh {
+        for k in 0..profiles.len() {
+            outputs.claim(&mesh_path(base, k, profiles.len()))?;
+        }
+    }
+    if let Some(p) = &a.svg {
+        outputs.claim(p)?;
+    }
     let opts = GamutOptions {
         ink_limit: a.ink_limit,
         ..GamutOptions::default()
@@ -67,8 +77,7 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         for (k, g) in gamuts.iter().enumerate() {
             let path = mesh_path(base, k, gamuts.len());
             let m = g.boundary();
-            crate::io::write_atomic(&path, |w| write_mesh(w, m, &g.name, format))
-                .map_err(|e| format!("cannot write '{}': {e}", path.display()))?;
+            outputs.stage(&path, |w| write_mesh(w, m, &g.name, format))?;
             meshes.push(MeshFile {
                 profile: g.name.clone(),
                 file: path.display().to_string(),
@@ -78,8 +87,9 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         }
     }
     if let Some(p) = &a.svg {
-        super::plot::write_figure(p, &super::plot::gamut_figure(&profiles, &gamuts)?)?;
+        super::plot::stage_figure(&mut outputs, p, &super::plot::gamut_figure(&profiles, &gamuts)?)?;
     }
+    outputs.commit()?;
     let r = GamutReport::new(&gamuts, coverage, meshes);
     if a.json {
         crate::report::write_json(out, &r)?;

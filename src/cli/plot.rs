@@ -11,6 +11,7 @@ use super::MappingArgs;
 use crate::gamut::Gamut;
 use crate::icc::transform::{resolve_lab, PressMapping};
 use crate::icc::IccProfile;
+use crate::io::Outputs;
 use crate::plot::{self, Figure, PlotError, PlotKind, Swatch};
 use crate::swatch::check::{check_against, CheckOptions, CheckReport, DEFAULT_TOLERANCE};
 use crate::swatch::Palette;
@@ -95,11 +96,10 @@ pub fn layers(
     Ok(out)
 }
 
-/// Writes `fig` to `path` atomically.
-pub fn write_figure(path: &Path, fig: &Figure) -> Result<(), Error> {
+/// Stages `fig` as SVG at `path`, to be put in place by `outputs.commit()`.
+pub fn stage_figure(outputs: &mut Outputs, path: &Path, fig: &Figure) -> Result<(), Error> {
     let text = plot::render(fig);
-    crate::io::write_atomic(path, |w| w.write_all(text.as_bytes()))
-        .map_err(|e| format!("cannot write '{}': {e}", path.display()))?;
+    outputs.stage_bytes(path, text.as_bytes())?;
     Ok(())
 }
 
@@ -124,6 +124,16 @@ pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
         None => None,
     };
     let mapping = a.mapping.mapping(false);
+    let mut outputs = Outputs::new();
+    for p in profiles.iter().chain([&screen]).chain(press.as_ref()) {
+        if let Some(f) = p.file() {
+            outputs.input(f);
+        }
+    }
+    if let Some(p) = &a.palette {
+        outputs.input(p);
+    }
+    outputs.claim(&a.out)?;
     // Compute.
     let press_gamut = match (&press, &palette) {
         (Some(p), Some(_)) => Some(Gamut::of_profile(p, Default::default())?),
@@ -167,7 +177,8 @@ pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
             .map(|p| mapping_words(mapping, &p.name)),
         collapsed: Vec::new(),
     };
-    write_figure(&a.out, &fig)?;
+    stage_figure(&mut outputs, &a.out, &fig)?;
+    outputs.commit()?;
     Ok(Outcome::Done)
 }
 

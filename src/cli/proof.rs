@@ -1,7 +1,7 @@
 //! The `proof` subcommand: arguments, the plan (every input probed, every
 //! profile resolved, every output path checked before work starts), the
 //! parallel proofs, and the writes, which happen only once every image has
-//! been proofed, so a failure leaves no output behind.
+//! been proofed, through one output guard: every output or none.
 
 use std::collections::HashMap;
 use std::io::{IsTerminal, Write};
@@ -93,22 +93,6 @@ fn expand_inputs(args: &[PathBuf]) -> Result<Vec<PathBuf>, Error> {
     Ok(out)
 }
 
-/// A path's identity for the "never overwrite the input" check.
-fn identity(p: &Path) -> PathBuf {
-    if let Ok(c) = p.canonicalize() {
-        return c;
-    }
-    // Not there yet: its folder's canonical form plus its name.
-    let parent = match p.parent() {
-        Some(d) if !d.as_os_str().is_empty() => d,
-        _ => Path::new("."),
-    };
-    match (parent.canonicalize(), p.file_name()) {
-        (Ok(d), Some(n)) => d.join(n),
-        _ => p.to_path_buf(),
-    }
-}
-
 /// An output argument: a folder, or a single file.
 enum Target {
     Dir(PathBuf),
@@ -187,25 +171,10 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         }
         None => None,
     };
-    let input_ids: Vec<PathBuf> = inputs.iter().map(|p| identity(p)).collect();
-    let mut claimed: HashMap<PathBuf, PathBuf> = HashMap::new();
-    let mut claim = |path: &Path, by: &Path| -> Result<(), Error> {
-        let id = identity(path);
-        if input_ids.contains(&id) {
-            return Err(format!("'{}': the output would overwrite an input image", path.display()).into());
-        }
-        if let Some(other) = claimed.insert(id, by.to_path_buf()) {
-            return Err(format!(
-                "'{}': both '{}' and '{}' would write this file",
-                path.display(),
-                other.display(),
-                by.display()
-            )
-            .into());
-        }
-        Ok(())
-    };
-
+    let mut outputs = super::commands::guarded_outputs(&[], &[&screen, &press]);
+    for input in &inputs {
+        outputs.input(input);
+    }
     let mut engines: Vec<ProofEngine> = Vec::new();
     let mut engine_of: HashMap<(Option<Vec<u8>>, usize, u8), usize> = HashMap::new();
     let mut jobs = Vec::with_capacity(inputs.len());
@@ -230,7 +199,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             )
             .into());
         }
-        claim(&out_path, input)?;
+        outputs.claim(&out_path)?;
         let map = match &map_target {
             Some(Target::Dir(d)) => Some((
                 d.join(format!("{}.delta.png", stem(input))),
@@ -240,8 +209,8 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             None => None,
         };
         if let Some((m, l)) = &map {
-            claim(m, input)?;
-            claim(l, input)?;
+            outputs.claim(m)?;
+            outputs.claim(l)?;
         }
         let embedded = match &info.icc {
             Some(bytes) => {
@@ -311,14 +280,15 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         finished.push(r?);
     }
 
-    // The writes.
+    // The writes: all of them, or none.
     for (job, f) in jobs.iter().zip(&finished) {
-        write_file(&job.out, &f.proof)?;
+        outputs.stage_bytes(&job.out, &f.proof)?;
         if let (Some((m, l)), Some((png, svg))) = (&job.map, &f.map) {
-            write_file(m, png)?;
-            write_file(l, svg.as_bytes())?;
+            outputs.stage_bytes(m, png)?;
+            outputs.stage_bytes(l, svg.as_bytes())?;
         }
     }
+    outputs.commit()?;
 
     let images: Vec<ImageReport> = finished.into_iter().map(|f| f.report).collect();
     let beyond = images.iter().any(|i| !i.within_tolerance);
@@ -361,15 +331,6 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     } else {
         Outcome::Done
     })
-}
-
-fn write_file(path: &Path, bytes: &[u8]) -> Result<(), Error> {
-    if let Some(d) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
-        std::fs::create_dir_all(d).map_err(|e| format!("'{}': cannot make the folder: {e}", d.display()))?;
-    }
-    crate::io::write_atomic(path, |w| w.write_all(bytes))
-        .map_err(|e| format!("'{}': cannot write: {e}", path.display()))?;
-    Ok(())
 }
 
 /// R = G = B from grey samples.

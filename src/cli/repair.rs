@@ -130,6 +130,8 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
     let palette = Palette::read(&a.palette)?;
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
+    let mut outputs = super::commands::guarded_outputs(&[&a.palette], &[&screen, &press]);
+    outputs.claim(&a.out)?;
     let gamut = crate::gamut::Gamut::of_profile(&press, Default::default())?;
     let opts = RepairOptions {
         survival: sopts,
@@ -138,8 +140,8 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
     };
     let (r, _, _) = repair(&palette, &screen, &press, &gamut, &opts)?;
     let format = Format::of_path(&a.palette);
-    crate::io::write_atomic(&a.out, |w| write_palette(w, format, &r))
-        .map_err(|e| format!("cannot write '{}': {e}", a.out.display()))?;
+    outputs.stage(&a.out, |w| write_palette(w, format, &r))?;
+    outputs.commit()?;
     if a.json {
         crate::report::write_json(out, &r)?;
     } else {

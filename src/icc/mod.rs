@@ -204,6 +204,14 @@ impl IccProfile {
         self.origin == Origin::Builtin
     }
 
+    /// The file it was read from; `None` for a built-in.
+    pub fn file(&self) -> Option<&Path> {
+        match &self.origin {
+            Origin::File(p) => Some(p),
+            Origin::Builtin => None,
+        }
+    }
+
     /// Accepts the profile as a screen: RGB device data, and a class that
     /// converts device values to the connection space.
     pub fn require_screen(self) -> Result<Self, IccError> {
