@@ -20,12 +20,14 @@ use std::path::{Path, PathBuf};
 /// Why an output cannot be written. Each names the path.
 #[derive(Debug, thiserror::Error)]
 pub enum OutputError {
-    #[error("'{output}' is the input '{input}': inkfit never writes over an input; name another output")]
+    #[error("'{output}' would overwrite the input '{input}': inkfit never writes over an input; name another output")]
     SameAsInput { output: String, input: String },
     #[error("'{output}' is {kind}, not a regular file: inkfit only replaces regular files")]
     NotRegular { output: String, kind: &'static str },
     #[error("'{output}' is a link to nothing: name the file itself")]
     DanglingLink { output: String },
+    #[error("'{output}': '{folder}' is not a folder, so nothing can be written inside it")]
+    NotAFolder { output: String, folder: String },
     #[error("'{output}' is named twice as an output of this run")]
     Twice { output: String },
     #[error("'{path}': cannot write: {source}")]
@@ -151,7 +153,23 @@ impl Outputs {
     pub fn claim(&mut self, path: &Path) -> Result<PathBuf, OutputError> {
         let shown = path.display().to_string();
         let target = match fs::symlink_metadata(path) {
-            Err(_) => path.to_path_buf(),
+            Err(_) => {
+                // Not there yet: the nearest existing ancestor must be a folder.
+                let mut up = path.parent();
+                while let Some(d) = up.filter(|d| !d.as_os_str().is_empty()) {
+                    if let Ok(m) = fs::metadata(d) {
+                        if !m.is_dir() {
+                            return Err(OutputError::NotAFolder {
+                                output: shown,
+                                folder: d.display().to_string(),
+                            });
+                        }
+                        break;
+                    }
+                    up = d.parent();
+                }
+                path.to_path_buf()
+            }
             Ok(lm) => {
                 let target = if lm.file_type().is_symlink() {
                     path.canonicalize()
@@ -171,9 +189,11 @@ impl Outputs {
                 }
                 let id = file_id(&m);
                 let canonical = target.canonicalize().ok();
-                if let Some(input) = self.inputs.iter().find(|i| {
-                    (id.is_some() && i.id == id) || (canonical.is_some() && i.canonical == canonical)
-                }) {
+                if let Some(input) = self
+                    .inputs
+                    .iter()
+                    .find(|i| (id.is_some() && i.id == id) || (canonical.is_some() && i.canonical == canonical))
+                {
                     return Err(OutputError::SameAsInput {
                         output: shown,
                         input: input.path.display().to_string(),

@@ -93,11 +93,27 @@ fn check_json_has_the_documented_keys_and_a_consistent_summary() {
 }
 
 #[test]
-fn strict_exits_one_only_when_something_is_beyond_tolerance() {
+fn strict_exits_one_exactly_when_the_verdict_fails() {
     let o = run(&["check", &demo("landuse.csv"), "--strict"]);
     assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
-    let o = run(&["check", &demo("landuse.csv"), "--strict", "--tolerance", "100"]);
-    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    // Any shift accepted, but three colours still lie outside the press gamut.
+    let o = run(&[
+        "check",
+        &demo("landuse.csv"),
+        "--strict",
+        "--tolerance",
+        "100",
+        "--json",
+    ]);
+    assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
+    let v = json(&o);
+    let kinds: Vec<&str> = v["verdict"]["reasons"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|r| r["check"].as_str().unwrap())
+        .collect();
+    assert_eq!(kinds, ["gamut"]);
 }
 
 #[test]

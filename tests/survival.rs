@@ -272,7 +272,14 @@ fn repair_writes_the_input_format_and_it_reads_back() {
     let back = Palette::read(&out).unwrap();
     assert_eq!(back.entries.len(), 8);
     let text = std::fs::read_to_string(&out).unwrap();
-    assert!(text.starts_with("name,color,press_cmyk\n"), "{text}");
+    // The input's header, with the press CMYK column added.
+    let header = std::fs::read_to_string(demo("soils.csv"))
+        .unwrap()
+        .lines()
+        .next()
+        .unwrap()
+        .to_string();
+    assert!(text.starts_with(&format!("{header},press_cmyk\n")), "{text}");
     assert!(text.lines().skip(1).all(|l| l.contains("device-cmyk(")), "{text}");
     // The repaired file passes the check it was repaired for.
     let c = bin()

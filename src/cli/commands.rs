@@ -43,6 +43,20 @@ pub(super) fn guarded_outputs(files: &[&Path], profiles: &[&IccProfile]) -> Outp
     o
 }
 
+/// Palettes from this many entries up take long enough to show progress.
+const BUSY_FROM: usize = 500;
+
+/// A spinner with `message` on stderr when `wanted` and stderr is a
+/// terminal; hidden otherwise.
+pub(super) fn busy(wanted: bool, message: String) -> indicatif::ProgressBar {
+    if !wanted || !std::io::stderr().is_terminal() {
+        return indicatif::ProgressBar::hidden();
+    }
+    let bar = indicatif::ProgressBar::new_spinner().with_message(message);
+    bar.enable_steady_tick(std::time::Duration::from_millis(120));
+    bar
+}
+
 fn round4(v: f64) -> f64 {
     (v * 1e4).round() / 1e4
 }
@@ -81,12 +95,18 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         mapping: a.mapping.mapping(a.paper_white),
         tolerance: a.tolerance,
     };
+    // Work that takes seconds shows a spinner on a terminal.
+    let spinner = busy(
+        palette.entries.len() >= BUSY_FROM && !a.json,
+        format!("checking {} colours against {}", palette.entries.len(), press.name),
+    );
     let press_gamut = match a.gamut_test {
         super::GamutTestArg::Boundary => Some(crate::gamut::Gamut::of_profile(&press, Default::default())?),
         super::GamutTestArg::RoundTrip => None,
     };
     let r = check_against(&palette, &screen, &press, opts, press_gamut.as_ref())?;
     let s = crate::swatch::survival::analyse_check(&r, &survival);
+    spinner.finish_and_clear();
     if let Some(p) = &a.svg {
         let collapsed: Vec<[usize; 2]> = s
             .separation
@@ -116,6 +136,11 @@ fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     };
     let lab = resolve_lab(&[ca, cb], &screen, press.as_ref())?;
     let (la, lb) = (lab[0], lab[1]);
+    for (text, l) in [(&a.a, la), (&a.b, lb)] {
+        if !l.to_array().iter().all(|v| v.is_finite()) {
+            return Err(format!("\"{text}\" gives no finite CIELAB through these profiles").into());
+        }
+    }
     let r = DeltaReport {
         a: DeltaColor {
             input: a.a.clone(),

@@ -111,7 +111,7 @@ pub struct CheckArgs {
     #[command(flatten)]
     pub mapping: MappingArgs,
     /// Largest acceptable CIEDE2000 between screen and print. The default 3.0 is a rule of thumb, not a standard.
-    #[arg(long, value_name = "ΔE00", default_value_t = crate::swatch::check::DEFAULT_TOLERANCE)]
+    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::check::DEFAULT_TOLERANCE)]
     pub tolerance: f64,
     /// Show the print on the paper's own white (absolute colorimetric), so the paper's tint counts.
     #[arg(long)]
@@ -179,7 +179,7 @@ pub struct GamutArgs {
     #[arg(long, value_name = "FILE")]
     pub mesh: Option<PathBuf>,
     /// Total-ink limit for CMYK profiles in percent (default: measured from each profile's CIELAB → CMYK table).
-    #[arg(long, value_name = "PERCENT")]
+    #[arg(long, allow_negative_numbers = true, value_name = "PERCENT")]
     pub ink_limit: Option<f64>,
     /// Also write a*b* slices of every gamut at L* 25, 50 and 75 as SVG.
     #[arg(long, value_name = "FILE.svg")]

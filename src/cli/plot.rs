@@ -41,7 +41,7 @@ pub struct PlotArgs {
     #[arg(long, value_name = "L,L,…", default_value = "30,50,70")]
     pub lightness: String,
     /// Hue angle of the leaf (leaf), degrees 0–360.
-    #[arg(long, value_name = "DEGREES", default_value_t = plot::DEFAULT_HUE)]
+    #[arg(long, allow_negative_numbers = true, value_name = "DEGREES", default_value_t = plot::DEFAULT_HUE)]
     pub hue: f64,
 }
 

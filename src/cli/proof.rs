@@ -53,7 +53,7 @@ pub struct ProofArgs {
     #[arg(long)]
     pub strict: bool,
     /// Largest acceptable 95th-percentile CIEDE2000. The default 3.0 is a rule of thumb, not a standard.
-    #[arg(long, value_name = "ΔE00", default_value_t = DEFAULT_TOLERANCE)]
+    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = DEFAULT_TOLERANCE)]
     pub tolerance: f64,
     /// No progress bar.
     #[arg(long)]

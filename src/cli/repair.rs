@@ -14,8 +14,9 @@ use crate::icc::IccProfile;
 use crate::report::table::{Align, Table, Tone};
 use crate::swatch::check::CheckReport;
 use crate::swatch::order::Scheme;
-use crate::swatch::repair::{repair, write_palette, RepairOptions, RepairReport};
-use crate::swatch::survival::{CheckWithSurvival, Survival, SurvivalOptions};
+use crate::swatch::repair::{repair, RepairOptions, RepairReport};
+use crate::swatch::rewrite::{rewrite, text_heading};
+use crate::swatch::survival::{verdict, CheckWithSurvival, Survival, SurvivalOptions};
 use crate::swatch::{Format, Palette};
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
@@ -38,16 +39,16 @@ pub struct SurvivalArgs {
     #[arg(long, value_enum, default_value = "qualitative")]
     pub scheme: SchemeArg,
     /// Smallest printed ΔE00 between any two entries. The default 10 is a rule of thumb for map classes told apart at a glance, not a standard.
-    #[arg(long, value_name = "ΔE00", default_value_t = crate::swatch::separation::DEFAULT_MIN_SEPARATION)]
+    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::separation::DEFAULT_MIN_SEPARATION)]
     pub min_separation: f64,
     /// Smallest ΔE00 between neighbouring steps of a sequential or diverging scheme (a rule of thumb).
-    #[arg(long, value_name = "ΔE00", default_value_t = crate::swatch::order::DEFAULT_MIN_STEP)]
+    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::order::DEFAULT_MIN_STEP)]
     pub min_step: f64,
     /// Colour-vision deficiencies to simulate on the printed colours, comma-separated.
     #[arg(long, value_enum, value_delimiter = ',', value_name = "LIST")]
     pub cvd: Vec<CvdArg>,
     /// Severity of the simulated deficiencies, 0 (normal vision) to 1 (dichromacy).
-    #[arg(long, value_name = "0..1", default_value_t = 1.0)]
+    #[arg(long, allow_negative_numbers = true, value_name = "0..1", default_value_t = 1.0)]
     pub cvd_severity: f64,
 }
 
@@ -86,14 +87,23 @@ pub fn finish_check(
     color: bool,
     out: &mut dyn Write,
 ) -> Result<Outcome, Error> {
+    let v = verdict(r, s);
     if json {
-        crate::report::write_json(out, &CheckWithSurvival { check: r, survival: s })?;
+        crate::report::write_json(
+            out,
+            &CheckWithSurvival {
+                check: r,
+                survival: s,
+                verdict: &v,
+            },
+        )?;
     } else {
         crate::report::render_check(out, r, color)?;
         let names: Vec<String> = r.entries.iter().map(|e| e.name.clone()).collect();
         crate::report::survival::render_survival(out, s, &names, color)?;
+        crate::report::survival::render_verdict(out, &v)?;
     }
-    Ok(if strict && (r.summary.beyond_tolerance > 0 || !s.passes) {
+    Ok(if strict && !v.passes {
         Outcome::BeyondTolerance
     } else {
         Outcome::Done
@@ -127,7 +137,7 @@ const ITERATIONS: usize = 40;
 pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     // The plan: options, palette, profiles and gamut before any work.
     let sopts = a.survival.options()?;
-    let palette = Palette::read(&a.palette)?;
+    let (palette, text) = Palette::read_with_text(&a.palette)?;
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
     let mut outputs = super::commands::guarded_outputs(&[&a.palette], &[&screen, &press]);
@@ -140,7 +150,8 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
     };
     let (r, _, _) = repair(&palette, &screen, &press, &gamut, &opts)?;
     let format = Format::of_path(&a.palette);
-    outputs.stage(&a.out, |w| write_palette(w, format, &r))?;
+    let heading = text_heading(&r.press, &r.screen);
+    outputs.stage(&a.out, |w| rewrite(w, format, &text, &r.rewrites(), &heading))?;
     outputs.commit()?;
     if a.json {
         crate::report::write_json(out, &r)?;

@@ -50,10 +50,38 @@ impl std::str::FromStr for ColorInput {
 /// function names, units, `none` and colour-space names are ASCII
 /// case-insensitive.
 pub fn parse_color(text: &str) -> Result<ColorInput, ColorParseError> {
-    parse_inner(text.trim()).map_err(|expected| ColorParseError {
-        input: text.to_string(),
-        expected,
-    })
+    parse_inner(text.trim())
+        .and_then(plausible)
+        .map_err(|expected| ColorParseError {
+            input: text.to_string(),
+            expected,
+        })
+}
+
+/// Largest magnitude of a CIELAB coordinate accepted from colour text. The
+/// most saturated spectral colours stay within a few hundred units of a* and
+/// b* (from memory), so values beyond this describe no colour and would only
+/// overflow later conversions.
+pub const MAX_LAB_COMPONENT: f64 = 1000.0;
+
+/// Rejects a parsed colour whose numbers are not finite or lie far outside
+/// anything a colour can be: `lab(1e308 …)` parses but converts to nothing.
+fn plausible(c: ColorInput) -> Result<ColorInput, String> {
+    let ok = match c {
+        ColorInput::ScreenRgb(v) => v.iter().all(|x| x.is_finite()),
+        ColorInput::Lab(l) => l
+            .to_array()
+            .iter()
+            .all(|x| x.is_finite() && x.abs() <= MAX_LAB_COMPONENT),
+        ColorInput::DeviceCmyk(v) => v.iter().all(|x| x.is_finite()),
+    };
+    if ok {
+        Ok(c)
+    } else {
+        Err(format!(
+            "its numbers describe no colour (not finite, or a CIELAB coordinate beyond ±{MAX_LAB_COMPONENT})"
+        ))
+    }
 }
 
 fn generic() -> String {

@@ -5,7 +5,7 @@ use std::io::{self, Write};
 
 use super::table::{Align, Table, Tone};
 use crate::swatch::separation::FlaggedPair;
-use crate::swatch::survival::Survival;
+use crate::swatch::survival::{Survival, Verdict};
 
 use super::fixed as f;
 
@@ -172,13 +172,33 @@ pub fn render_survival(w: &mut dyn Write, s: &Survival, names: &[String], color:
     }
     writeln!(w)?;
     if s.passes {
-        writeln!(
-            w,
-            "the palette survives print: separation{} hold",
-            if s.order.is_some() { ", order" } else { "" }
-        )?;
+        let (what, verb) = if s.order.is_some() {
+            ("separation and lightness order", "hold")
+        } else {
+            ("separation", "holds")
+        };
+        let cvd = if s.cvd.is_some() {
+            ", also under the simulated deficiencies"
+        } else {
+            ""
+        };
+        writeln!(w, "palette checks: {what} {verb}{cvd}")?;
     } else {
-        writeln!(w, "the palette does not survive print: {}", s.problems.join("; "))?;
+        let details: Vec<&str> = s.problems.iter().map(|p| p.detail.as_str()).collect();
+        writeln!(w, "palette checks: {}", details.join("; "))?;
     }
     Ok(())
+}
+
+/// The last line of `inkfit check`: the one verdict, in plain words.
+pub fn render_verdict(w: &mut dyn Write, v: &Verdict) -> io::Result<()> {
+    if v.passes {
+        writeln!(
+            w,
+            "verdict: passes (every colour within tolerance and printable, every palette check holds)"
+        )
+    } else {
+        let details: Vec<&str> = v.reasons.iter().map(|p| p.detail.as_str()).collect();
+        writeln!(w, "verdict: fails ({})", details.join("; "))
+    }
 }

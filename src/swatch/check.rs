@@ -23,6 +23,22 @@ pub const ROUND_TRIP_THRESHOLD: f64 = 1.0;
 /// acceptable" in design review (common practice), not a standard.
 pub const DEFAULT_TOLERANCE: f64 = 3.0;
 
+/// Why a palette could not be checked.
+#[derive(Debug, thiserror::Error)]
+pub enum CheckError {
+    #[error(transparent)]
+    Icc(#[from] IccError),
+    /// A colour that the profiles turn into no finite number: no NaN or
+    /// infinity may reach a table or JSON.
+    #[error("palette '{file}', line {line}: \"{input}\" gives no finite {what} through these profiles")]
+    NotFinite {
+        file: String,
+        line: usize,
+        input: String,
+        what: &'static str,
+    },
+}
+
 #[derive(Clone, Copy, Debug)]
 pub struct CheckOptions {
     pub mapping: PressMapping,
@@ -48,7 +64,9 @@ pub struct CheckedEntry {
     /// round-trip test).
     pub round_trip_delta_e00: f64,
     /// CIEDE2000 from the screen colour to the nearest colour of the press
-    /// gamut (0 inside); null with the round-trip test.
+    /// gamut (0 inside), with the boundary test; absent with the round-trip
+    /// test, which measures no distance.
+    #[serde(skip_serializing_if = "Option::is_none")]
     pub outside_by: Option<f64>,
     pub within_tolerance: bool,
 }
@@ -91,7 +109,7 @@ pub fn check(
     screen: &IccProfile,
     press: &IccProfile,
     opts: CheckOptions,
-) -> Result<CheckReport, IccError> {
+) -> Result<CheckReport, CheckError> {
     check_against(palette, screen, press, opts, None)
 }
 
@@ -103,7 +121,7 @@ pub fn check_against(
     press: &IccProfile,
     opts: CheckOptions,
     press_gamut: Option<&crate::gamut::Gamut>,
-) -> Result<CheckReport, IccError> {
+) -> Result<CheckReport, CheckError> {
     let t = PressTransforms::new(screen, press, opts.mapping)?;
     let n = palette.entries.len();
 
@@ -167,9 +185,28 @@ pub fn check_against(
             _ => delta_e00(screen_lab[i], round_trip[i]),
         };
         let (in_gamut, outside_by) = match &judged {
-            Some(j) => (j[i].0, Some(round(j[i].1, 2))),
+            Some(j) => (j[i].0, Some(j[i].1)),
             None => (rt <= ROUND_TRIP_THRESHOLD, None),
         };
+        let finite = |v: &[f64]| v.iter().all(|x| x.is_finite());
+        let not_finite = [
+            (finite(&screen_lab[i].to_array()), "screen CIELAB"),
+            (finite(&cmyk[i]), "press CMYK"),
+            (finite(&printed[i].to_array()) && de.is_finite(), "printed CIELAB"),
+            (rt.is_finite(), "round trip"),
+            (outside_by.is_none_or(f64::is_finite), "distance to the press gamut"),
+        ]
+        .into_iter()
+        .find(|(ok, _)| !ok);
+        if let Some((_, what)) = not_finite {
+            return Err(CheckError::NotFinite {
+                file: palette.source.clone(),
+                line: e.line,
+                input: e.input.clone(),
+                what,
+            });
+        }
+        let outside_by = outside_by.map(|d| round(d, 2));
         entries.push(CheckedEntry {
             name: e.name.clone(),
             input: e.input.clone(),

@@ -4,6 +4,7 @@
 pub mod check;
 pub mod order;
 pub mod repair;
+pub mod rewrite;
 pub mod separation;
 pub mod survival;
 
@@ -59,7 +60,28 @@ pub enum PaletteError {
     Format { file: String, message: String },
     #[error("palette '{file}': no colours in it")]
     Empty { file: String },
+    #[error("palette '{file}': larger than {limit} MiB; inkfit reads palettes up to that size")]
+    TooLarge { file: String, limit: u64 },
+    #[error("palette '{file}' has {count} entries; inkfit checks up to {limit} at a time")]
+    TooMany { file: String, count: usize, limit: usize },
+    #[error("palette '{file}', line {line}: not UTF-8 text")]
+    NotText { file: String, line: usize },
+    #[error("palette '{file}' is a folder, not a file")]
+    Folder { file: String },
 }
+
+/// Largest palette file read, in bytes: 16 MiB holds several hundred
+/// thousand CSV lines, far more than any palette; a larger file is refused
+/// after reading one byte past the limit, so no input can make the read
+/// unbounded (a FIFO or `/dev/zero` included).
+pub const MAX_PALETTE_BYTES: u64 = 16 << 20;
+
+/// Most entries in one palette. Every pair is compared (separation), so the
+/// work grows with the square of the count, and each colour outside the
+/// press gamut costs a nearest-point search: 4,096 random screen colours
+/// take about 8 s on 2 cores (measured, release build); 10,000 would take
+/// half a minute.
+pub const MAX_ENTRIES: usize = 4_096;
 
 /// The palette file formats inkfit reads.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -88,12 +110,16 @@ impl Format {
 impl Palette {
     /// Reads a palette file, choosing the format by extension.
     pub fn read(path: &Path) -> Result<Palette, PaletteError> {
+        Palette::read_with_text(path).map(|(p, _)| p)
+    }
+
+    /// Reads a palette file and also returns its text, for writing it back
+    /// in its own shape ([`rewrite`]).
+    pub fn read_with_text(path: &Path) -> Result<(Palette, String), PaletteError> {
         let file = path.display().to_string();
-        let text = std::fs::read_to_string(path).map_err(|source| PaletteError::Read {
-            file: file.clone(),
-            source,
-        })?;
-        Palette::parse(&file, &text, Format::of_path(path))
+        let text = read_bounded(path, &file)?;
+        let p = Palette::parse(&file, &text, Format::of_path(path))?;
+        Ok((p, text))
     }
 
     /// Parses palette text; `file` names it in errors.
@@ -106,6 +132,13 @@ impl Palette {
         if entries.is_empty() {
             return Err(PaletteError::Empty { file: file.to_string() });
         }
+        if entries.len() > MAX_ENTRIES {
+            return Err(PaletteError::TooMany {
+                file: file.to_string(),
+                count: entries.len(),
+                limit: MAX_ENTRIES,
+            });
+        }
         Ok(Palette {
             source: file.to_string(),
             entries,
@@ -113,8 +146,38 @@ impl Palette {
     }
 }
 
+/// The text of a palette file, read up to [`MAX_PALETTE_BYTES`].
+fn read_bounded(path: &Path, file: &str) -> Result<String, PaletteError> {
+    use std::io::Read;
+    let read_err = |source| PaletteError::Read {
+        file: file.to_string(),
+        source,
+    };
+    if path.is_dir() {
+        return Err(PaletteError::Folder { file: file.to_string() });
+    }
+    let f = std::fs::File::open(path).map_err(read_err)?;
+    let mut bytes = Vec::new();
+    f.take(MAX_PALETTE_BYTES + 1)
+        .read_to_end(&mut bytes)
+        .map_err(read_err)?;
+    if bytes.len() as u64 > MAX_PALETTE_BYTES {
+        return Err(PaletteError::TooLarge {
+            file: file.to_string(),
+            limit: MAX_PALETTE_BYTES >> 20,
+        });
+    }
+    String::from_utf8(bytes).map_err(|e| {
+        let good = &e.as_bytes()[..e.utf8_error().valid_up_to()];
+        PaletteError::NotText {
+            file: file.to_string(),
+            line: 1 + good.iter().filter(|&&b| b == b'\n').count(),
+        }
+    })
+}
+
 const NAME_HEADERS: &[&str] = &["name", "label", "class", "title", "id"];
-const COLOR_HEADERS: &[&str] = &["color", "colour", "value", "hex", "css"];
+pub(crate) const COLOR_HEADERS: &[&str] = &["color", "colour", "value", "hex", "css"];
 
 fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
     let syntax = |line: usize, message: String| PaletteError::Syntax {
@@ -253,13 +316,13 @@ fn is_hex_color(s: &str) -> bool {
         .is_some_and(|c| c.is_ascii_alphanumeric())
 }
 
-fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
-    let mut entries = Vec::new();
-    for (i, raw) in text.lines().enumerate() {
-        let line = i + 1;
+/// The entries of a plain-text palette as (line number, colour text, name
+/// text): comments and blank lines skipped, a trailing comment cut off.
+fn text_entries(text: &str) -> impl Iterator<Item = (usize, Result<(&str, &str), String>)> {
+    text.lines().enumerate().filter_map(|(i, raw)| {
         let mut s = raw.trim();
         if s.is_empty() || (s.starts_with('#') && !is_hex_color(s)) {
-            continue;
+            return None;
         }
         // A comment after the entry: whitespace then '#' not starting a hex colour.
         if let Some(pos) = s.char_indices().find_map(|(p, c)| {
@@ -267,7 +330,22 @@ fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
         }) {
             s = s[..pos].trim_end();
         }
-        let (input, name) = split_color(s).map_err(|message| PaletteError::Syntax {
+        Some((i + 1, split_color(s)))
+    })
+}
+
+/// Line number and colour text of each entry of a plain-text palette that
+/// parses, for writing it back ([`rewrite`]).
+pub(crate) fn text_entry_lines(text: &str) -> Vec<(usize, String)> {
+    text_entries(text)
+        .filter_map(|(line, r)| r.ok().map(|(input, _)| (line, input.to_string())))
+        .collect()
+}
+
+fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
+    let mut entries = Vec::new();
+    for (line, split) in text_entries(text) {
+        let (input, name) = split.map_err(|message| PaletteError::Syntax {
             file: file.to_string(),
             line,
             message,

@@ -26,15 +26,14 @@
 //! cannot all be met; the result is then checked again with the full
 //! pipeline, and every check that still fails is reported.
 
-use std::io::{self, Write};
-
 use lcms2::{PixelFormat, Transform};
 use serde::Serialize;
 
 use super::check::{check_against, CheckOptions, CheckReport};
 use super::order::{arms, direction};
+use super::rewrite::Rewrite;
 use super::survival::{analyse_check, Survival, SurvivalError, SurvivalOptions};
-use super::{Entry, Format, Palette};
+use super::{Entry, Palette};
 use crate::color::css::ColorInput;
 use crate::color::cvd::Simulator;
 use crate::color::delta::delta_e00;
@@ -59,6 +58,8 @@ gamut as a hard constraint (projection along the segment to the printed colour)"
 pub enum RepairError {
     #[error(transparent)]
     Icc(#[from] IccError),
+    #[error(transparent)]
+    Check(#[from] super::check::CheckError),
     #[error(transparent)]
     Options(#[from] SurvivalError),
     #[error("screen profile '{name}': cannot build a CIELAB → screen transform")]
@@ -433,7 +434,7 @@ pub fn repair(
 
     let after_check = check_against(&repaired, screen, press, copts, Some(gamut))?;
     let after = analyse_check(&after_check, &opts.survival);
-    let mut unmet = after.problems.clone();
+    let mut unmet: Vec<String> = after.problems.iter().map(|p| p.detail.clone()).collect();
     let outside: Vec<&str> = after_check
         .entries
         .iter()
@@ -481,55 +482,16 @@ pub fn repair(
     ))
 }
 
-fn cmyk_css(c: [f64; 4]) -> String {
-    format!("device-cmyk({:.1}% {:.1}% {:.1}% {:.1}%)", c[0], c[1], c[2], c[3])
-}
-
-fn csv_field(s: &str) -> String {
-    if s.contains([',', '"', '\n']) {
-        format!("\"{}\"", s.replace('"', "\"\""))
-    } else {
-        s.to_string()
+impl RepairReport {
+    /// Each entry's new colour (where it changed) and press CMYK, for
+    /// writing the palette back in its own shape ([`super::rewrite`]).
+    pub fn rewrites(&self) -> Vec<Rewrite> {
+        self.entries
+            .iter()
+            .map(|e| Rewrite {
+                color: e.changed.then(|| e.repaired.clone()),
+                press_cmyk: e.press_cmyk,
+            })
+            .collect()
     }
-}
-
-/// Writes the repaired palette in `format`: each entry's name, its screen
-/// colour (hex when repaired, the original text when unchanged) and the
-/// press CMYK (percent) it prints with. Files written this way read back
-/// with [`Palette::parse`].
-pub fn write_palette(w: &mut dyn Write, format: Format, r: &RepairReport) -> io::Result<()> {
-    match format {
-        Format::Csv => {
-            writeln!(w, "name,color,press_cmyk")?;
-            for e in &r.entries {
-                writeln!(
-                    w,
-                    "{},{},{}",
-                    csv_field(&e.name),
-                    csv_field(&e.repaired),
-                    csv_field(&cmyk_css(e.press_cmyk))
-                )?;
-            }
-        }
-        Format::Json => {
-            let items: Vec<serde_json::Value> = r
-                .entries
-                .iter()
-                .map(|e| serde_json::json!({"name": e.name, "color": e.repaired, "press_cmyk": e.press_cmyk}))
-                .collect();
-            serde_json::to_writer_pretty(&mut *w, &items)?;
-            writeln!(w)?;
-        }
-        Format::Text => {
-            writeln!(
-                w,
-                "# repaired for press {} (screen {}); press CMYK in the comments",
-                r.press, r.screen
-            )?;
-            for e in &r.entries {
-                writeln!(w, "{} {}  # press {}", e.repaired, e.name, cmyk_css(e.press_cmyk))?;
-            }
-        }
-    }
-    Ok(())
 }

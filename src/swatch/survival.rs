@@ -112,6 +112,37 @@ impl CvdReport {
     }
 }
 
+/// Which check a finding belongs to.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum CheckKind {
+    /// A colour shifts beyond the tolerance.
+    Tolerance,
+    /// A colour lies outside the press gamut.
+    Gamut,
+    /// A press colour needs more ink than the press's total ink limit.
+    InkLimit,
+    /// Two entries come too close in print.
+    Separation,
+    /// The lightness order of an ordered scheme breaks, or a step is too small.
+    Order,
+    /// Two entries come too close under a simulated colour-vision deficiency.
+    Cvd,
+}
+
+/// One failed check, in words.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Finding {
+    pub check: CheckKind,
+    pub detail: String,
+}
+
+impl Finding {
+    fn new(check: CheckKind, detail: String) -> Self {
+        Finding { check, detail }
+    }
+}
+
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Survival {
     pub scheme: Scheme,
@@ -120,10 +151,13 @@ pub struct Survival {
     pub order: Option<Order>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub cvd: Option<CvdReport>,
-    /// True when separation, order and every deficiency pass.
+    /// True when separation, order and every deficiency pass (the palette
+    /// analysis only; the whole check's verdict is [`Verdict`]).
+    #[serde(rename = "survival_passes")]
     pub passes: bool,
-    /// One sentence per failed check, most important first.
-    pub problems: Vec<String>,
+    /// One finding per failed palette check, most important first.
+    #[serde(rename = "survival_problems")]
+    pub problems: Vec<Finding>,
 }
 
 /// CVD separation: simulate both the screen and the printed colours.
@@ -161,20 +195,29 @@ pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &Sur
     let mut problems = Vec::new();
     if !sep.flagged.is_empty() {
         let collapsed = sep.flagged.iter().filter(|f| f.below_floor).count();
-        problems.push(format!(
-            "{} pair{} below ΔE00 {} in print, {} losing more than half their screen difference",
-            collapsed,
-            if collapsed == 1 { "" } else { "s" },
-            opts.min_separation,
-            sep.flagged.iter().filter(|f| f.lost_half).count()
+        problems.push(Finding::new(
+            CheckKind::Separation,
+            format!(
+                "{} pair{} below ΔE00 {} in print, {} losing more than half their screen difference",
+                collapsed,
+                if collapsed == 1 { "" } else { "s" },
+                opts.min_separation,
+                sep.flagged.iter().filter(|f| f.lost_half).count()
+            ),
         ));
     }
     if let Some(o) = &ord {
         if !o.monotonic_screen {
-            problems.push("lightness order reverses on screen".to_string());
+            problems.push(Finding::new(
+                CheckKind::Order,
+                "lightness order reverses on screen".to_string(),
+            ));
         }
         if !o.monotonic_print {
-            problems.push("lightness order reverses in print".to_string());
+            problems.push(Finding::new(
+                CheckKind::Order,
+                "lightness order reverses in print".to_string(),
+            ));
         }
         let small = o
             .steps
@@ -182,24 +225,30 @@ pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &Sur
             .filter(|s| s.too_small_print || s.too_small_screen)
             .count();
         if small > 0 {
-            problems.push(format!(
-                "{small} step{} below ΔE00 {}",
-                if small == 1 { "" } else { "s" },
-                opts.min_step
+            problems.push(Finding::new(
+                CheckKind::Order,
+                format!(
+                    "{small} step{} below ΔE00 {}",
+                    if small == 1 { "" } else { "s" },
+                    opts.min_step
+                ),
             ));
         }
     }
     if let Some(c) = &cvd {
         for (d, r) in c.iter() {
             if !r.flagged.is_empty() {
-                problems.push(format!(
-                    "{} {} under {d} simulation",
-                    r.flagged.len(),
-                    if r.flagged.len() == 1 {
-                        "pair collapses"
-                    } else {
-                        "pairs collapse"
-                    }
+                problems.push(Finding::new(
+                    CheckKind::Cvd,
+                    format!(
+                        "{} {} under {d} simulation",
+                        r.flagged.len(),
+                        if r.flagged.len() == 1 {
+                            "pair collapses"
+                        } else {
+                            "pairs collapse"
+                        }
+                    ),
                 ));
             }
         }
@@ -222,12 +271,70 @@ pub fn analyse_check(r: &CheckReport, opts: &SurvivalOptions) -> Survival {
     analyse(&names, &screen, &print, opts)
 }
 
+/// The one verdict of a check: every colour within tolerance, inside the
+/// press gamut and within its ink limit, and every palette check passing.
+/// `--strict` exits 1 exactly when `passes` is false.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Verdict {
+    pub passes: bool,
+    /// What failed, per-colour checks first, then the palette checks.
+    pub reasons: Vec<Finding>,
+}
+
+/// "3 colours … : A, B, C" for the entries that fail one per-colour test.
+fn colour_finding(
+    check: CheckKind,
+    r: &CheckReport,
+    fails: impl Fn(&super::check::CheckedEntry) -> bool,
+    what: &str,
+) -> Option<Finding> {
+    let names: Vec<&str> = r.entries.iter().filter(|e| fails(e)).map(|e| e.name.as_str()).collect();
+    (!names.is_empty()).then(|| {
+        let n = names.len();
+        Finding::new(
+            check,
+            format!(
+                "{n} colour{} {what}: {}",
+                if n == 1 { "" } else { "s" },
+                names.join(", ")
+            ),
+        )
+    })
+}
+
+/// The verdict over a check and its palette analysis.
+pub fn verdict(r: &CheckReport, s: &Survival) -> Verdict {
+    let tolerance = format!("beyond ΔE00 {}", crate::report::fixed(r.tolerance, 1));
+    let mut reasons: Vec<Finding> = [
+        colour_finding(
+            CheckKind::Tolerance,
+            r,
+            |e| !e.within_tolerance,
+            &format!(
+                "shift{} {tolerance}",
+                if r.summary.beyond_tolerance == 1 { "s" } else { "" }
+            ),
+        ),
+        colour_finding(CheckKind::Gamut, r, |e| !e.in_gamut, "outside the press gamut"),
+    ]
+    .into_iter()
+    .flatten()
+    .collect();
+    reasons.extend(s.problems.iter().cloned());
+    Verdict {
+        passes: reasons.is_empty(),
+        reasons,
+    }
+}
+
 /// `inkfit check --json`: the check's keys followed by `scheme`,
-/// `separation`, `order` and `cvd`.
+/// `separation`, `order`, `cvd`, the palette analysis's own result, and the
+/// one `verdict`.
 #[derive(Serialize)]
 pub struct CheckWithSurvival<'a> {
     #[serde(flatten)]
     pub check: &'a CheckReport,
     #[serde(flatten)]
     pub survival: &'a Survival,
+    pub verdict: &'a Verdict,
 }
