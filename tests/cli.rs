@@ -144,15 +144,16 @@ fn every_intent_and_paper_white_run() {
 }
 
 #[test]
-fn perceptual_on_the_builtin_press_says_it_has_no_own_table() {
-    let o = run(&["check", &demo("density.txt"), "--intent", "perceptual"]);
-    let out = stdout(&o);
-    assert!(out.contains("note") && out.contains("same data"), "{out}");
-    let o = run(&["check", &demo("density.txt")]);
-    assert!(
-        !stdout(&o).contains("same data"),
-        "relative colorimetric has its own table"
-    );
+fn every_intent_has_its_own_table_on_the_builtin_press() {
+    for intent in ["perceptual", "relative", "saturation"] {
+        let o = run(&["check", &demo("density.txt"), "--intent", intent]);
+        let out = stdout(&o);
+        assert!(!out.contains("same data"), "{intent}: {out}");
+    }
+    // A profile whose intents share one table says so: the built-in press's
+    // CMYK → CIELAB direction links A2B0 to A2B1.
+    let text = stdout(&run(&["inspect", "offset-coated"]));
+    assert!(text.contains("A2B1") && text.contains("same"), "{text}");
 }
 
 #[test]
@@ -230,7 +231,9 @@ fn inspect_reports_matrix_and_press_profiles() {
     let intents = v["intents"].as_array().unwrap();
     assert_eq!(intents[1]["intent"], "relative");
     assert_eq!(intents[1]["from_pcs"]["status"], "own");
-    assert_eq!(intents[0]["from_pcs"]["status"], "same-as");
+    assert_eq!(intents[0]["from_pcs"]["status"], "own");
+    assert_eq!(intents[2]["from_pcs"]["status"], "own");
+    assert_eq!(intents[0]["to_pcs"]["status"], "same-as");
     let text = stdout(&run(&["inspect", "offset-coated"]));
     assert!(text.contains("max ink") && text.contains("measured"), "{text}");
 }

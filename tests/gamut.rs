@@ -624,9 +624,14 @@ fn check_reports_outside_by_and_keeps_the_round_trip() {
     for e in v["entries"].as_array().unwrap() {
         let d = e["outside_by"].as_f64().unwrap();
         assert_eq!(e["in_gamut"].as_bool().unwrap(), d <= EDGE_TOLERANCE, "{e}");
-        // The two tests measure the same thing from different sides (round
-        // trip vs. nearest boundary point): they agree within 1 ΔE00 here.
-        assert!((d - e["round_trip_delta_e00"].as_f64().unwrap()).abs() < 1.0, "{e}");
+        // `outside_by` is the CIEDE2000 distance to the nearest printable
+        // colour, so no printed colour, the round trip's hue-preserving clip
+        // included, can be nearer (up to the boundary's 1-unit voxels).
+        let rt = e["round_trip_delta_e00"].as_f64().unwrap();
+        assert!(d <= rt + 0.5, "{e}");
+        if d == 0.0 {
+            assert!(rt <= 1.0, "inside but the round trip moves it: {e}");
+        }
     }
     let o = bin()
         .args(["check", demo, "--json", "--gamut-test", "round-trip"])

@@ -11,13 +11,15 @@
 //! with x the nominal ink fractions, D first the CIELAB difference vector
 //! (ΔE*ab, CIE 015:2018) and then the CIEDE2000 residual vector
 //! (`color::delta::delta_e00_residuals`). For a target outside the gamut
-//! the minimiser is the printable colour closest to it in CIEDE2000: a
-//! minimum-ΔE clip. ΔE*ab
-//! least squares finds the basin (smooth and well-scaled everywhere, also far
-//! from the gamut); CIEDE2000, the difference the checks report, picks the
-//! final point, because it weighs lightness, chroma and hue errors the way
-//! they are seen.
+//! the minimiser is the printable colour closest to it in CIEDE2000. The
+//! tables do not rely on that far from the gamut: each intent first maps
+//! the target into the gamut ([`super::mapping`], hue-preserving in OKLab)
+//! and inverts the mapped colour, so the minimum-ΔE solution only settles
+//! the last fraction of a unit that the gamut descriptor cannot resolve.
+//! ΔE*ab least squares finds the basin (smooth and well-scaled everywhere);
+//! CIEDE2000 picks the final point of a target just outside.
 
+use super::mapping::{Mapper, Method};
 use super::model::PrintCondition;
 use super::PressError;
 use crate::color::delta::delta_e00_residuals;
@@ -498,7 +500,7 @@ pub fn invert_with(cond: &PrintCondition, table: &StartTable, target: LabD50) ->
     }
     let (mut x, _) = best.unwrap_or(([0.0; 4], f64::INFINITY));
     let lab76 = cond.lab_relative(x);
-    if crate::color::delta::delta_e76(lab76, target) > 0.01 {
+    if crate::color::delta::delta_e76(lab76, target) > IN_GAMUT_E76 {
         // Out of gamut: the CIEDE2000 optimum may lie in another basin than
         // the ΔE*ab one, so start from that and from the two best distinct
         // samples by ΔE00, and keep the lowest ΔE00 cost.
@@ -528,6 +530,64 @@ pub fn invert_with(cond: &PrintCondition, table: &StartTable, target: LabD50) ->
         printed,
         delta_e00: crate::color::delta::delta_e00(printed, target),
     }
+}
+
+/// Inverts one target for a rendering intent: the target is first mapped
+/// into the press gamut by `method` ([`super::mapping`]), then inverted.
+/// For the colorimetric clip an in-gamut target is inverted as it is, and a
+/// target the descriptor counts as inside but the model cannot quite reach
+/// keeps the minimum-ΔE solution of [`invert_with`] (a distance within the
+/// descriptor's resolution, where CIEDE2000 is the right measure).
+/// `delta_e00` is always between the printed colour and the original target.
+pub fn invert_mapped(
+    cond: &PrintCondition,
+    table: &StartTable,
+    mapper: &Mapper,
+    method: Method,
+    target: LabD50,
+) -> InkSolution {
+    let solve_for = |goal: LabD50| {
+        let s = invert_with(cond, table, goal);
+        InkSolution {
+            delta_e00: crate::color::delta::delta_e00(s.printed, target),
+            ..s
+        }
+    };
+    match method {
+        Method::HueClip => {
+            if mapper.clearly_outside(target) {
+                return solve_for(mapper.map(method, target));
+            }
+            let direct = invert_with(cond, table, target);
+            if crate::color::delta::delta_e76(direct.printed, target) <= IN_GAMUT_E76 {
+                return direct;
+            }
+            let goal = mapper.map(method, target);
+            if goal == target {
+                direct
+            } else {
+                solve_for(goal)
+            }
+        }
+        Method::Compress | Method::KeepChroma => solve_for(mapper.map(method, target)),
+    }
+}
+
+/// A target printed within this ΔE*ab counts as matched (in gamut).
+pub const IN_GAMUT_E76: f64 = 0.01;
+
+/// Inverts many targets in parallel for one rendering intent's mapping.
+pub fn invert_all_mapped(
+    cond: &PrintCondition,
+    mapper: &Mapper,
+    method: Method,
+    targets: &[LabD50],
+) -> Vec<InkSolution> {
+    let table = StartTable::new(cond);
+    targets
+        .par_iter()
+        .map(|t| invert_mapped(cond, &table, mapper, method, *t))
+        .collect()
 }
 
 /// Inverts one media-relative target (builds its own start table; for many

@@ -5,6 +5,7 @@
 pub mod icc_read;
 pub mod icc_writer;
 pub mod invert;
+pub mod mapping;
 pub mod model;
 
 pub use icc_writer::build_icc;
