@@ -27,6 +27,7 @@ fn bench_check(c: &mut Criterion) {
             paper_white: false,
         },
         tolerance: 3.0,
+        ink_limit: None,
     };
     c.bench_function("check_1000_colours_end_to_end", |b| {
         b.iter(|| {

@@ -40,6 +40,7 @@ fn bench_survival(c: &mut Criterion) {
     let copts = CheckOptions {
         mapping,
         tolerance: 3.0,
+        ink_limit: gamut.ink_limit,
     };
     c.bench_function("check_256_separation_3_deficiencies", |b| {
         b.iter(|| {

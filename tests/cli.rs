@@ -39,7 +39,16 @@ fn check_json_has_the_documented_keys_and_a_consistent_summary() {
     let o = run(&["check", &demo("landuse.csv"), "--json"]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let v = json(&o);
-    for k in ["screen", "press", "intent", "bpc", "tolerance", "entries", "summary"] {
+    for k in [
+        "screen",
+        "press",
+        "intent",
+        "bpc",
+        "tolerance",
+        "ink_limit",
+        "entries",
+        "summary",
+    ] {
         assert!(v.get(k).is_some(), "key {k}");
     }
     assert_eq!(v["intent"], "relative");
@@ -61,6 +70,7 @@ fn check_json_has_the_documented_keys_and_a_consistent_summary() {
             "delta_e00",
             "in_gamut",
             "within_tolerance",
+            "over_ink_limit",
         ] {
             assert!(e.get(k).is_some(), "entry key {k}");
         }
@@ -82,11 +92,16 @@ fn check_json_has_the_documented_keys_and_a_consistent_summary() {
         beyond += usize::from(de > 3.0);
         outside += usize::from(!e["in_gamut"].as_bool().unwrap());
         max = max.max(de);
+        assert_eq!(
+            e["over_ink_limit"], false,
+            "the press's own separations keep its limit: {e}"
+        );
     }
     let s = &v["summary"];
     assert_eq!(s["count"], 9);
     assert_eq!(s["beyond_tolerance"].as_u64().unwrap() as usize, beyond);
     assert_eq!(s["out_of_gamut"].as_u64().unwrap() as usize, outside);
+    assert_eq!(s["over_ink_limit"], 0);
     assert_eq!(s["max_delta_e00"].as_f64().unwrap(), max);
     assert!(outside >= 2, "the demo has colours outside the press gamut");
     assert!(beyond >= 1, "the demo has colours that shift visibly");
@@ -408,4 +423,115 @@ fn check_svg_joins_the_pairs_that_collapse_in_print() {
     ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     assert!(!std::fs::read_to_string(&svg).unwrap().contains("collapsed-pair"));
+}
+
+/// The built-in press is built with a 330 % total area coverage (README,
+/// `inkfit profiles`; the press model's specification): the limit `check`
+/// measures from its Lab → CMYK table must agree within 1 %.
+const BUILTIN_TAC: f64 = 330.0;
+
+fn reason_kinds(v: &serde_json::Value) -> Vec<String> {
+    v["verdict"]["reasons"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|r| r["check"].as_str().unwrap().to_string())
+        .collect()
+}
+
+#[test]
+fn check_flags_press_colours_that_need_more_ink_than_the_press_allows() {
+    let dir = tempfile::tempdir().unwrap();
+    let p = temp_file(
+        dir.path(),
+        "blacks.txt",
+        b"device-cmyk(100% 100% 100% 100%) Rich black\ndevice-cmyk(0% 0% 0% 100%) Solid key\n",
+    );
+    let p = p.to_str().unwrap();
+    // The floor off, so the colours' own results alone decide the verdict.
+    let args = |test: &'static str| vec!["check", p, "--gamut-test", test, "--min-separation", "0"];
+    for test in ["boundary", "round-trip"] {
+        let o = run(&[args(test), vec!["--json"]].concat());
+        assert_eq!(o.status.code(), Some(0), "{test}: {}", stderr(&o));
+        let v = json(&o);
+        let limit = v["ink_limit"]["percent"].as_f64().unwrap();
+        assert!(
+            (limit - BUILTIN_TAC).abs() <= 0.01 * BUILTIN_TAC,
+            "{test}: measured ink limit {limit}, built with {BUILTIN_TAC}"
+        );
+        assert_eq!(v["ink_limit"]["source"], "measured", "{test}");
+        let (rich, key) = (&v["entries"][0], &v["entries"][1]);
+        assert_eq!(rich["ink_total"].as_f64().unwrap(), 400.0, "{test}");
+        assert_eq!(rich["over_ink_limit"], true, "{test}: {rich}");
+        assert_eq!(rich["in_gamut"], false, "{test}: not printable as given: {rich}");
+        assert_eq!(key["over_ink_limit"], false, "{test}: {key}");
+        assert_eq!(key["in_gamut"], true, "{test}: {key}");
+        match test {
+            "boundary" => {
+                assert!(rich["outside_by"].as_f64().is_some(), "{test}: a distance: {rich}");
+                assert_eq!(key["outside_by"].as_f64().unwrap(), 0.0, "{test}");
+            }
+            _ => assert!(rich.get("outside_by").is_none(), "{test}: no distance: {rich}"),
+        }
+        assert_eq!(v["summary"]["over_ink_limit"], 1, "{test}");
+        assert_eq!(v["summary"]["out_of_gamut"], 1, "{test}");
+        assert_eq!(v["verdict"]["passes"], false, "{test}");
+        assert_eq!(reason_kinds(&v), ["gamut", "ink_limit"], "{test}");
+        let detail = v["verdict"]["reasons"][1]["detail"].as_str().unwrap();
+        assert!(detail.ends_with(": Rich black"), "{test}: names the entry: {detail}");
+
+        let o = run(&[args(test), vec!["--strict"]].concat());
+        assert_eq!(o.status.code(), Some(1), "{test}: {}", stderr(&o));
+        let text = stdout(&o);
+        let row = |name: &str| text.lines().find(|l| l.contains(name)).unwrap().to_string();
+        assert!(row("Rich black").ends_with("over ink"), "{test}:\n{text}");
+        assert!(row("Solid key").ends_with("holds"), "{test}:\n{text}");
+        assert!(text.contains(", 1 over the ink limit;"), "{test}:\n{text}");
+        let header = text.lines().find(|l| l.starts_with("ink ")).unwrap();
+        assert!(header.contains(&format!("limit {limit:.1} %")), "{test}: {header}");
+        assert!(
+            text.contains("ink limit: Rich black"),
+            "{test}: the verdict line:\n{text}"
+        );
+    }
+
+    // The solid key alone passes, and --strict then exits 0.
+    let key = temp_file(dir.path(), "key.txt", b"device-cmyk(0% 0% 0% 100%) Solid key\n");
+    let o = run(&["check", key.to_str().unwrap(), "--strict", "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v = json(&o);
+    assert_eq!(v["summary"]["over_ink_limit"], 0);
+    assert_eq!(v["verdict"]["passes"], true, "{v}");
+    let text = stdout(&run(&["check", key.to_str().unwrap()]));
+    assert!(!text.contains("over the ink limit"), "no count when none:\n{text}");
+}
+
+#[test]
+fn a_press_colour_over_the_ink_limit_is_as_far_outside_as_its_printed_colour() {
+    // The distance of an over-limit press colour is the boundary test's
+    // distance of what it prints, the same as for that CIELAB given as lab().
+    let dir = tempfile::tempdir().unwrap();
+    let p = temp_file(dir.path(), "rich.txt", b"device-cmyk(100% 100% 100% 100%) Rich black\n");
+    let v = json(&run(&["check", p.to_str().unwrap(), "--json"]));
+    let rich = &v["entries"][0];
+    let lab: Vec<f64> = rich["proof_lab"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|x| x.as_f64().unwrap())
+        .collect();
+    let twin = temp_file(
+        dir.path(),
+        "twin.txt",
+        format!("lab({} {} {}) Printed\n", lab[0], lab[1], lab[2]).as_bytes(),
+    );
+    let t = json(&run(&["check", twin.to_str().unwrap(), "--json"]));
+    let (d, expected) = (
+        rich["outside_by"].as_f64().unwrap(),
+        t["entries"][0]["outside_by"].as_f64().unwrap(),
+    );
+    assert!(
+        (d - expected).abs() <= 0.05,
+        "outside_by {d}, its printed CIELAB {expected}"
+    );
 }

@@ -7,6 +7,7 @@ use std::path::Path;
 use super::{BuildPressArgs, CheckArgs, Cli, Command, DeltaArgs, InspectArgs, ProfilesArgs};
 use crate::color::css::parse_color;
 use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
+use crate::gamut::InkLimit;
 use crate::icc::transform::resolve_lab;
 use crate::icc::{builtin, inspect, IccProfile};
 use crate::io::Outputs;
@@ -91,10 +92,6 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if let Some(p) = &a.svg {
         outputs.claim(p)?;
     }
-    let opts = CheckOptions {
-        mapping: a.mapping.mapping(a.paper_white),
-        tolerance: a.tolerance,
-    };
     // Work that takes seconds shows a spinner on a terminal.
     let spinner = busy(
         palette.entries.len() >= BUSY_FROM && !a.json,
@@ -103,6 +100,17 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     let press_gamut = match a.gamut_test {
         super::GamutTestArg::Boundary => Some(crate::gamut::Gamut::of_profile(&press, Default::default())?),
         super::GamutTestArg::RoundTrip => None,
+    };
+    // The press's ink limit: the one its gamut was computed with, or the
+    // same measurement of its CIELAB → CMYK table.
+    let ink_limit = match &press_gamut {
+        Some(g) => g.ink_limit,
+        None => InkLimit::measure(&press),
+    };
+    let opts = CheckOptions {
+        mapping: a.mapping.mapping(a.paper_white),
+        tolerance: a.tolerance,
+        ink_limit,
     };
     let r = check_against(&palette, &screen, &press, opts, press_gamut.as_ref())?;
     let s = crate::swatch::survival::analyse_check(&r, &survival);

@@ -119,7 +119,7 @@ pub struct CheckArgs {
     /// Write JSON instead of a table.
     #[arg(long)]
     pub json: bool,
-    /// Exit with code 1 when any colour is beyond the tolerance, or a separation, order or CVD check fails.
+    /// Exit with code 1 when the verdict fails: a colour beyond the tolerance, outside the press gamut or over its ink limit, or a failed separation, order or CVD check.
     #[arg(long)]
     pub strict: bool,
     /// How "in gamut" is decided: inside the press gamut's boundary, or by a CIELAB → press → CIELAB round trip.

@@ -144,6 +144,7 @@ pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
             let opts = CheckOptions {
                 mapping,
                 tolerance: DEFAULT_TOLERANCE,
+                ink_limit: press_gamut.as_ref().and_then(|g| g.ink_limit),
             };
             Swatch::from_check(&check_against(pal, &screen, pr, opts, press_gamut.as_ref())?)
         }

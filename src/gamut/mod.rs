@@ -78,6 +78,21 @@ pub struct InkLimit {
     pub measured: bool,
 }
 
+impl InkLimit {
+    /// The limit measured from a CMYK output profile's own CIELAB → CMYK
+    /// table ([`inspect::measure_max_ink`]), at most 400 %; `None` when there
+    /// is no such table or it produces (almost) no ink.
+    pub fn measure(p: &IccProfile) -> Option<InkLimit> {
+        inspect::measure_max_ink(p)
+            .map(|m| m.percent)
+            .filter(|v| *v >= 1.0)
+            .map(|v| InkLimit {
+                percent: v.min(400.0),
+                measured: true,
+            })
+    }
+}
+
 /// Sampling densities. The defaults meet the accuracy the tests ask for.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct GamutOptions {
@@ -262,14 +277,7 @@ impl Gamut {
                 measured: false,
             },
             Some(value) => return Err(GamutError::InkLimit { value }),
-            None => InkLimit {
-                percent: inspect::inspect(p)
-                    .max_ink
-                    .filter(|v| *v >= 1.0)
-                    .ok_or_else(|| GamutError::NoInkLimit { name: p.name.clone() })?
-                    .min(400.0),
-                measured: true,
-            },
+            None => InkLimit::measure(p).ok_or_else(|| GamutError::NoInkLimit { name: p.name.clone() })?,
         };
         let t = to_lab_transform::<Px4>(p, PixelFormat::CMYK_DBL)?;
         let n = opts.cmyk_steps.max(2);

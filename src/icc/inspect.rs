@@ -109,8 +109,7 @@ pub fn inspect(p: &IccProfile) -> ProfileReport {
             from_pcs: table_report(p.table_use(intent, Direction::FromPcs)),
         })
         .collect();
-    let is_cmyk_output = h.color_space == header::SPACE_CMYK && h.class == header::CLASS_OUTPUT;
-    let max_ink = if is_cmyk_output { measure_max_ink(p) } else { None };
+    let max_ink = measure_max_ink(p);
     let c = h.created;
     ProfileReport {
         name: p.name.clone(),
@@ -133,9 +132,9 @@ pub fn inspect(p: &IccProfile) -> ProfileReport {
         },
         intents,
         primaries: primaries(p),
-        max_ink: max_ink.map(|(m, _)| m),
-        max_ink_method: max_ink.map(|(_, n)| {
-            format!("measured: largest C+M+Y+K of {n} CIELAB points, a grid then a local search around the heaviest, sent through the relative colorimetric Lab → CMYK table")
+        max_ink: max_ink.map(|m| m.percent),
+        max_ink_method: max_ink.map(|m| {
+            format!("measured: largest C+M+Y+K of {} CIELAB points, a grid then a local search around the heaviest, sent through the relative colorimetric Lab → CMYK table", m.samples)
         }),
         tags: h.tags.iter().map(|t| t.sig.to_string()).collect(),
     }
@@ -235,9 +234,25 @@ fn primaries(p: &IccProfile) -> Option<Primaries> {
     })
 }
 
-/// Samples CIELAB through the profile's relative colorimetric Lab → CMYK
-/// table and returns the largest total ink and the sample count.
-fn measure_max_ink(p: &IccProfile) -> Option<(f64, usize)> {
+/// The largest total ink a CMYK output profile's Lab → CMYK table produces.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct MaxInk {
+    /// C + M + Y + K in percent, rounded to 0.1.
+    pub percent: f64,
+    /// How many CIELAB points were sent through the table.
+    pub samples: usize,
+}
+
+/// Samples CIELAB through the relative colorimetric Lab → CMYK table of a
+/// CMYK output profile and returns the largest total ink found; `None` for
+/// any other kind of profile or when lcms2 cannot use the table. The one
+/// measurement behind `inspect`'s `max_ink` and the ink limit of `gamut` and
+/// `check`.
+pub fn measure_max_ink(p: &IccProfile) -> Option<MaxInk> {
+    let h = &p.header;
+    if h.color_space != header::SPACE_CMYK || h.class != header::CLASS_OUTPUT {
+        return None;
+    }
     let lab = lab_d50_profile();
     let t: Transform<[f64; 3], [f64; 4]> = Transform::new(
         &lab,
@@ -284,7 +299,10 @@ fn measure_max_ink(p: &IccProfile) -> Option<(f64, usize)> {
         }
         max = max.max(best);
     }
-    Some(((max * 10.0).round() / 10.0, count))
+    Some(MaxInk {
+        percent: (max * 10.0).round() / 10.0,
+        samples: count,
+    })
 }
 
 /// A coarse grid over the whole CIELAB cube plus a dense one over the

@@ -11,7 +11,7 @@ use serde::Serialize;
 
 use crate::icc::builtin::BuiltinInfo;
 use crate::icc::inspect::{ProfileReport, TableReport};
-use crate::swatch::check::CheckReport;
+use crate::swatch::check::{CheckReport, InkLimitSource};
 use table::{Align, Table, Tone};
 
 /// `v` rounded to `places` decimals, with negative zero made positive: the
@@ -68,6 +68,18 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
         fixed(r.tolerance, 1)
     )?;
     writeln!(w, "gamut    {}", r.gamut_test)?;
+    match r.ink_limit {
+        Some(l) => writeln!(
+            w,
+            "ink      limit {} % C+M+Y+K ({}); a colour needing more is not printable",
+            fixed(l.percent, 1),
+            match l.source {
+                InkLimitSource::Measured => "measured from the press profile's Lab → CMYK table",
+                InkLimitSource::Given => "given",
+            }
+        )?,
+        None => writeln!(w, "ink      no limit known; no colour is held to one")?,
+    }
     for n in &r.notes {
         writeln!(w, "note     {n}")?;
     }
@@ -109,7 +121,9 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
                 (false, Some(d)) => (format!("out by {}", fixed(d, 1)), Tone::Bad),
                 (false, None) => ("outside".into(), Tone::Bad),
             },
-            if e.within_tolerance {
+            if e.over_ink_limit {
+                ("over ink".into(), Tone::Bad)
+            } else if e.within_tolerance {
                 ("holds".into(), Tone::Good)
             } else {
                 ("shifts".into(), Tone::Bad)
@@ -121,12 +135,17 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
     writeln!(w)?;
     writeln!(
         w,
-        "{} colour{}: {} shift beyond ΔE00 {}, {} outside the press gamut; largest ΔE00 {} ({}), mean {}",
+        "{} colour{}: {} shift beyond ΔE00 {}, {} outside the press gamut{}; largest ΔE00 {} ({}), mean {}",
         s.count,
         if s.count == 1 { "" } else { "s" },
         s.beyond_tolerance,
         fixed(r.tolerance, 1),
         s.out_of_gamut,
+        if s.over_ink_limit > 0 {
+            format!(", {} over the ink limit", s.over_ink_limit)
+        } else {
+            String::new()
+        },
         fixed(s.max_delta_e00, 2),
         s.worst,
         fixed(s.mean_delta_e00, 2)

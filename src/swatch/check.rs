@@ -1,6 +1,7 @@
 //! The palette-on-press check: for each entry, its CIELAB on the screen, the
 //! press CMYK under the chosen rendering intent, the CIELAB of that CMYK as
-//! printed, CIEDE2000 between the two, and whether the colour is printable.
+//! printed, CIEDE2000 between the two, whether the colour is printable and
+//! whether its CMYK needs more ink than the press allows.
 
 use crate::report::round;
 use rayon::prelude::*;
@@ -10,6 +11,7 @@ use super::Palette;
 use crate::color::css::ColorInput;
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
+use crate::gamut::InkLimit;
 use crate::icc::transform::{PressMapping, PressTransforms};
 use crate::icc::{Direction, IccError, IccProfile, RenderingIntent};
 
@@ -22,6 +24,23 @@ pub const ROUND_TRIP_THRESHOLD: f64 = 1.0;
 /// Default tolerance: ΔE00 3.0, a rule of thumb for "visibly different but
 /// acceptable" in design review (common practice), not a standard.
 pub const DEFAULT_TOLERANCE: f64 = 3.0;
+
+/// How far (percentage points) a CMYK total may exceed the press's ink limit
+/// before it counts as over it. The limit is measured by sampling the press
+/// profile's own CIELAB → CMYK table and rounded to 0.1 %, so it can fall a
+/// little short of the largest total that table really gives; the CMYK it
+/// gives carry 16-bit quantisation and interpolation, and `ink_total` is
+/// reported to 0.1. Half a point absorbs all of that, so a colour the press
+/// profile itself separated is never flagged for rounding, and stays well
+/// below the whole-percent steps in which ink limits are set (common
+/// practice).
+pub const INK_LIMIT_MARGIN: f64 = 0.5;
+
+/// True when a CMYK total `ink_total` (percent, C + M + Y + K) needs more ink
+/// than the limit `limit_percent` allows, beyond [`INK_LIMIT_MARGIN`].
+pub fn over_ink_limit(ink_total: f64, limit_percent: f64) -> bool {
+    ink_total > limit_percent + INK_LIMIT_MARGIN
+}
 
 /// Why a palette could not be checked.
 #[derive(Debug, thiserror::Error)]
@@ -43,6 +62,10 @@ pub enum CheckError {
 pub struct CheckOptions {
     pub mapping: PressMapping,
     pub tolerance: f64,
+    /// The press's total-ink limit, normally the one its gamut was computed
+    /// with ([`crate::gamut::Gamut::ink_limit`]) or [`InkLimit::measure`];
+    /// `None` flags no colour.
+    pub ink_limit: Option<InkLimit>,
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -55,6 +78,9 @@ pub struct CheckedEntry {
     /// Press CMYK in percent.
     pub press_cmyk: [f64; 4],
     pub ink_total: f64,
+    /// The press CMYK needs more ink than the press's limit (beyond
+    /// [`INK_LIMIT_MARGIN`]); a press colour that does is not printable.
+    pub over_ink_limit: bool,
     /// CIELAB D50 of that CMYK as printed (media-relative, or absolute with
     /// `paper_white`).
     pub proof_lab: [f64; 3],
@@ -76,10 +102,42 @@ pub struct CheckSummary {
     pub count: usize,
     pub beyond_tolerance: usize,
     pub out_of_gamut: usize,
+    pub over_ink_limit: usize,
     pub max_delta_e00: f64,
     pub mean_delta_e00: f64,
     /// Name of the entry with the largest ΔE00.
     pub worst: String,
+}
+
+/// Where a check's ink limit came from.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum InkLimitSource {
+    /// From the press profile's own CIELAB → CMYK table.
+    Measured,
+    /// From the caller.
+    Given,
+}
+
+/// The press's total-ink limit as a check reports it.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize)]
+pub struct CheckInkLimit {
+    /// Percent, C + M + Y + K.
+    pub percent: f64,
+    pub source: InkLimitSource,
+}
+
+impl From<InkLimit> for CheckInkLimit {
+    fn from(l: InkLimit) -> Self {
+        CheckInkLimit {
+            percent: round(l.percent, 1),
+            source: if l.measured {
+                InkLimitSource::Measured
+            } else {
+                InkLimitSource::Given
+            },
+        }
+    }
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -92,6 +150,8 @@ pub struct CheckReport {
     pub paper_white: bool,
     pub tolerance: f64,
     pub gamut_test: String,
+    /// The total-ink limit every entry's CMYK is held to; null when unknown.
+    pub ink_limit: Option<CheckInkLimit>,
     /// Caveats about the profiles, e.g. an intent without a table of its own.
     pub notes: Vec<String>,
     pub entries: Vec<CheckedEntry>,
@@ -161,17 +221,30 @@ pub fn check_against(
     }
     let printed = t.printed_lab(&cmyk);
     let round_trip = t.round_trip(&screen_lab);
+    let over: Vec<bool> = cmyk
+        .iter()
+        .map(|c| {
+            opts.ink_limit
+                .is_some_and(|l| over_ink_limit(c.iter().sum(), l.percent))
+        })
+        .collect();
+    // A press colour is printable as given unless it needs more ink than the
+    // press allows.
+    let press_printable = |i: usize| !(matches!(palette.entries[i].color, ColorInput::DeviceCmyk(_)) && over[i]);
 
     // The boundary test and the distance to the gamut, in parallel: the
     // nearest-point search dominates a check of many out-of-gamut colours.
-    // Press colours are printable by definition.
+    // A press colour over the ink limit is measured by its relative
+    // colorimetric printed CIELAB (held in `screen_lab`), the gamut's own
+    // frame.
     let judged: Option<Vec<(bool, f64)>> = press_gamut.map(|g| {
         palette
             .entries
             .par_iter()
             .zip(&screen_lab)
-            .map(|(e, &l)| match e.color {
-                ColorInput::DeviceCmyk(_) => (true, 0.0),
+            .enumerate()
+            .map(|(i, (e, &l))| match e.color {
+                ColorInput::DeviceCmyk(_) if press_printable(i) => (true, 0.0),
                 _ => g.judge(l),
             })
             .collect()
@@ -180,13 +253,14 @@ pub fn check_against(
     for (i, e) in palette.entries.iter().enumerate() {
         let de = delta_e00(screen_lab[i], printed[i]);
         let rt = match e.color {
-            // A press colour is printable by definition.
+            // A press colour needs no trip through the press's Lab → CMYK
+            // table; whether it can print is the ink limit's question.
             ColorInput::DeviceCmyk(_) => 0.0,
             _ => delta_e00(screen_lab[i], round_trip[i]),
         };
         let (in_gamut, outside_by) = match &judged {
-            Some(j) => (j[i].0, Some(j[i].1)),
-            None => (rt <= ROUND_TRIP_THRESHOLD, None),
+            Some(j) => (j[i].0 && press_printable(i), Some(j[i].1)),
+            None => (rt <= ROUND_TRIP_THRESHOLD && press_printable(i), None),
         };
         let finite = |v: &[f64]| v.iter().all(|x| x.is_finite());
         let not_finite = [
@@ -214,6 +288,7 @@ pub fn check_against(
             screen_lab: round_all(screen_lab[i].to_array(), 2),
             press_cmyk: round_all(cmyk[i], 1),
             ink_total: round(cmyk[i].iter().sum(), 1),
+            over_ink_limit: over[i],
             proof_lab: round_all(printed[i].to_array(), 2),
             delta_e00: round(de, 2),
             in_gamut,
@@ -231,6 +306,7 @@ pub fn check_against(
         bpc: opts.mapping.bpc,
         paper_white: opts.mapping.paper_white,
         tolerance: opts.tolerance,
+        ink_limit: opts.ink_limit.map(CheckInkLimit::from),
         gamut_test: match press_gamut {
             Some(g) => format!(
                 "press gamut boundary in CIELAB{}: inside, or within ΔE00 {:.1} of it",
@@ -259,6 +335,7 @@ fn summarise(entries: &[CheckedEntry]) -> CheckSummary {
         count: entries.len(),
         beyond_tolerance: entries.iter().filter(|e| !e.within_tolerance).count(),
         out_of_gamut: entries.iter().filter(|e| !e.in_gamut).count(),
+        over_ink_limit: entries.iter().filter(|e| e.over_ink_limit).count(),
         max_delta_e00: worst.map_or(0.0, |w| w.delta_e00),
         mean_delta_e00: if entries.is_empty() {
             0.0
@@ -283,4 +360,25 @@ fn notes(screen: &IccProfile, press: &IccProfile, m: PressMapping) -> Vec<String
     .into_iter()
     .flatten()
     .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn ink_limit_rule_allows_the_rounding_margin_and_nothing_more() {
+        // At the limit and within half a point of it: a total the press's own
+        // table can give, up to its measurement and rounding.
+        assert!(!over_ink_limit(330.0, 330.0));
+        assert!(!over_ink_limit(330.4, 330.0));
+        assert!(!over_ink_limit(330.5, 330.0));
+        // Beyond the margin: more ink than the press allows.
+        assert!(over_ink_limit(330.51, 330.0));
+        assert!(over_ink_limit(331.0, 330.0));
+        assert!(over_ink_limit(400.0, 330.0));
+        // The margin is relative to the limit, not a fixed total.
+        assert!(over_ink_limit(300.6, 300.0));
+        assert!(!over_ink_limit(300.5, 300.0));
+    }
 }

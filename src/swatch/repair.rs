@@ -362,6 +362,7 @@ pub fn repair(
     let copts = CheckOptions {
         mapping: opts.mapping,
         tolerance: super::check::DEFAULT_TOLERANCE,
+        ink_limit: gamut.ink_limit,
     };
     let before_check = check_against(palette, screen, press, copts, Some(gamut))?;
     let before = analyse_check(&before_check, &opts.survival);

@@ -120,7 +120,7 @@ pub enum CheckKind {
     Tolerance,
     /// A colour lies outside the press gamut.
     Gamut,
-    /// A press colour needs more ink than the press's total ink limit.
+    /// A colour's press CMYK needs more ink than the press's total-ink limit.
     InkLimit,
     /// Two entries come too close in print.
     Separation,
@@ -316,6 +316,15 @@ pub fn verdict(r: &CheckReport, s: &Survival) -> Verdict {
             ),
         ),
         colour_finding(CheckKind::Gamut, r, |e| !e.in_gamut, "outside the press gamut"),
+        // Entries are only flagged against a known limit.
+        r.ink_limit.and_then(|l| {
+            colour_finding(
+                CheckKind::InkLimit,
+                r,
+                |e| e.over_ink_limit,
+                &format!("over the press's {} % ink limit", crate::report::fixed(l.percent, 1)),
+            )
+        }),
     ]
     .into_iter()
     .flatten()
