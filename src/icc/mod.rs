@@ -5,6 +5,7 @@
 pub mod builtin;
 pub mod header;
 pub mod inspect;
+pub mod tags;
 pub mod transform;
 
 use std::fmt;
@@ -13,6 +14,7 @@ use std::io::Read;
 use std::path::{Path, PathBuf};
 
 use header::{Header, HeaderError, Signature, TagEntry};
+use tags::TagError;
 
 /// The largest profile inkfit reads, bytes: 64 MiB. Display and press
 /// profiles are a few kB to a few MB (the built-in press is 0.9 MB); large
@@ -35,6 +37,12 @@ pub enum IccError {
         name: String,
         #[source]
         source: std::io::Error,
+    },
+    #[error("profile '{name}': {source}")]
+    BadTag {
+        name: String,
+        #[source]
+        source: TagError,
     },
     #[error("profile '{name}': not a regular file but {what}; give the path of an ICC profile file")]
     NotAFile { name: String, what: &'static str },
@@ -183,12 +191,17 @@ impl IccProfile {
         Self::from_bytes(spec, Origin::File(path.to_path_buf()), bytes)
     }
 
-    /// Checks and opens a profile held in memory.
+    /// Checks and opens a profile held in memory: the header and tag table,
+    /// then every tag lcms2 will decode, and only then lcms2.
     pub fn from_bytes(name: &str, origin: Origin, bytes: Vec<u8>) -> Result<Self, IccError> {
         if bytes.len() > MAX_PROFILE_BYTES {
             return Err(IccError::TooLarge { name: name.to_string() });
         }
         let header = Header::parse(&bytes).map_err(|source| IccError::Malformed {
+            name: name.to_string(),
+            source,
+        })?;
+        tags::validate(&header, &bytes).map_err(|source| IccError::BadTag {
             name: name.to_string(),
             source,
         })?;
