@@ -61,6 +61,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                 paper_white: false,
             },
             tolerance: 3.0,
+            ink_limit: gamut.ink_limit,
         };
         let r = check_against(&palette, &screen, &press, opts, Some(&gamut))?;
         let (mut dh_ok, mut dh_ab, mut kept, mut de) = (Vec::new(), Vec::new(), Vec::new(), Vec::new());

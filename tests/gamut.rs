@@ -144,7 +144,7 @@ fn coverage_of_two_matrix_gamuts_matches_dense_sampling() {
     let (ps, pp) = (profile("srgb"), profile("display-p3"));
     let (is, ip) = (MatrixInverse::of(&ps), MatrixInverse::of(&pp));
     let gp = Gamut::of_profile(&pp, GamutOptions::default()).unwrap();
-    let (s_in_p, p_in_s) = coverage_pair(srgb(), &gp, 1.0);
+    let (s_in_p, p_in_s) = coverage_pair(srgb(), &gp, 1.0).unwrap();
     let step = 1.0;
     let (mut ns, mut np, mut nsp) = (0usize, 0usize, 0usize);
     let mut l = 0.5 * step;

@@ -71,7 +71,7 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         .iter()
         .map(|p| Gamut::of_profile(p, opts))
         .collect::<Result<Vec<_>, _>>()?;
-    let coverage = coverage_all(&gamuts, COVERAGE_VOXEL);
+    let coverage = coverage_all(&gamuts, COVERAGE_VOXEL)?;
     let mut meshes = Vec::new();
     if let (Some(base), Some(format)) = (&a.mesh, format) {
         for (k, g) in gamuts.iter().enumerate() {

@@ -18,6 +18,24 @@ pub struct Grid {
     pub dims: [usize; 3],
 }
 
+/// The most voxels a grid may hold: 2²⁷ (128 Mi, 128 MiB of cells). The
+/// largest box a plausible device gamut spans (L* −5…101, a*, b* ±400; see
+/// `gamut::PLAUSIBLE_LAB`) needs about 72 Mi voxels of 1 CIELAB unit with
+/// the margins; real gamuts need 5 to 20 Mi. Indices then fit in `u32`.
+pub const MAX_VOXELS: usize = 1 << 27;
+const _: () = assert!(MAX_VOXELS <= u32::MAX as usize);
+
+/// Why no grid covers a box.
+#[derive(Clone, Debug, PartialEq, thiserror::Error)]
+pub enum GridError {
+    #[error(
+        "cannot lay a voxel grid over the box {lo:?}…{hi:?} with voxels of {h} (not finite, inverted or not positive)"
+    )]
+    Degenerate { lo: [f64; 3], hi: [f64; 3], h: f64 },
+    #[error("a voxel grid of {dims} voxels of {h} CIELAB units would exceed the limit of {limit} voxels")]
+    TooLarge { dims: String, h: f64, limit: usize },
+}
+
 /// Offsets (in voxels) that keep voxel centres off round CIELAB values, so
 /// that mesh edges and vertices (the black point at a* = b* = 0, say) never
 /// lie exactly on a column of centres. Any irrational-looking fractions do.
@@ -25,15 +43,37 @@ const JITTER: [f64; 3] = [0.137_921, 0.271_828, 0.314_159];
 
 impl Grid {
     /// The grid of spacing `h` covering `lo..=hi` with two empty voxels of
-    /// margin on every side.
-    pub fn covering(lo: [f64; 3], hi: [f64; 3], h: f64) -> Grid {
+    /// margin on every side. Refuses a box that is not finite and a grid of
+    /// more than [`MAX_VOXELS`] voxels (the product is computed with checked
+    /// arithmetic, so no size wraps around).
+    pub fn covering(lo: [f64; 3], hi: [f64; 3], h: f64) -> Result<Grid, GridError> {
+        let finite = lo.iter().chain(&hi).all(|v| v.is_finite());
+        if !(finite && h.is_finite() && h > 0.0 && (0..3).all(|d| lo[d] <= hi[d])) {
+            return Err(GridError::Degenerate { lo, hi, h });
+        }
         let mut origin = [0.0; 3];
-        let mut dims = [0; 3];
+        let mut steps = [0.0; 3];
         for d in 0..3 {
             origin[d] = ((lo[d] / h).floor() - 2.0 + JITTER[d]) * h;
-            dims[d] = (((hi[d] - origin[d]) / h).ceil() as usize) + 3;
+            steps[d] = ((hi[d] - origin[d]) / h).ceil() + 3.0;
         }
-        Grid { origin, h, dims }
+        let too_large = || GridError::TooLarge {
+            dims: format!("{} × {} × {}", steps[0], steps[1], steps[2]),
+            h,
+            limit: MAX_VOXELS,
+        };
+        // Each count is finite and positive here; beyond the cap as a float,
+        // it is refused before any conversion to an integer.
+        if steps.iter().any(|&s| !(s >= 1.0 && s <= MAX_VOXELS as f64)) {
+            return Err(too_large());
+        }
+        let dims = steps.map(|s| s as usize);
+        dims[0]
+            .checked_mul(dims[1])
+            .and_then(|n| n.checked_mul(dims[2]))
+            .filter(|&n| n <= MAX_VOXELS)
+            .ok_or_else(too_large)?;
+        Ok(Grid { origin, h, dims })
     }
 
     pub fn len(&self) -> usize {
@@ -60,33 +100,90 @@ impl Grid {
 
     /// Index range of voxel centres within `lo..=hi` along axis `d`.
     fn span(&self, d: usize, lo: f64, hi: f64) -> Option<(usize, usize)> {
+        if !(lo.is_finite() && hi.is_finite()) {
+            return None;
+        }
         let a = ((lo - self.origin[d]) / self.h).ceil().max(0.0);
         let b = ((hi - self.origin[d]) / self.h).floor().min(self.dims[d] as f64 - 1.0);
         (a <= b).then_some((a as usize, b as usize))
     }
 }
 
+/// Bounding box of `points`; `None` when there are none or a coordinate is
+/// not finite.
+fn finite_box(points: &[[f64; 3]]) -> Option<([f64; 3], [f64; 3])> {
+    let first = *points.first()?;
+    let (mut lo, mut hi) = (first, first);
+    for p in points {
+        for d in 0..3 {
+            if !p[d].is_finite() {
+                return None;
+            }
+            lo[d] = lo[d].min(p[d]);
+            hi[d] = hi[d].max(p[d]);
+        }
+    }
+    Some((lo, hi))
+}
+
+/// Index ranges along [L*, a*, b*] of the voxel centres inside the
+/// bounding box of `points`; `None` when the box holds no centre.
+fn box_spans(grid: &Grid, points: &[[f64; 3]]) -> Option<[(usize, usize); 3]> {
+    let (lo, hi) = finite_box(points)?;
+    Some([
+        grid.span(0, lo[0], hi[0])?,
+        grid.span(1, lo[1], hi[1])?,
+        grid.span(2, lo[2], hi[2])?,
+    ])
+}
+
+/// Index ranges along a* and b* of the (a*, b*) columns inside the bounding
+/// box of `points`, whatever its extent in L*.
+fn column_spans(grid: &Grid, points: &[[f64; 3]]) -> Option<[(usize, usize); 2]> {
+    let (lo, hi) = finite_box(points)?;
+    Some([grid.span(1, lo[1], hi[1])?, grid.span(2, lo[2], hi[2])?])
+}
+
+fn span_len(s: (usize, usize)) -> u64 {
+    (s.1 - s.0 + 1) as u64
+}
+
+/// How many voxel centres [`fill_tetrahedron`] tests for all of `tets`: the
+/// sum of their bounding boxes' voxel counts on `grid` (saturating). Lets a
+/// caller refuse a fill whose cost is out of proportion to the grid before
+/// starting it.
+pub fn tetrahedra_work(grid: &Grid, tets: &[[[f64; 3]; 4]]) -> u64 {
+    tets.iter()
+        .filter_map(|t| box_spans(grid, t))
+        .map(|s| span_len(s[0]) * span_len(s[1]) * span_len(s[2]))
+        .fold(0u64, u64::saturating_add)
+}
+
+/// How many (a*, b*) columns [`fill_closed_mesh`] tests for all of
+/// `triangles`, each of which may record one crossing: the sum of their
+/// bounding boxes' column counts on `grid` (saturating).
+pub fn mesh_work(grid: &Grid, vertices: &[[f64; 3]], triangles: &[[u32; 3]]) -> u64 {
+    triangles
+        .iter()
+        .filter_map(|tri| {
+            let p = tri.map(|i| vertices.get(i as usize).copied());
+            column_spans(grid, &[p[0]?, p[1]?, p[2]?])
+        })
+        .map(|s| span_len(s[0]) * span_len(s[1]))
+        .fold(0u64, u64::saturating_add)
+}
+
 /// Marks every voxel whose centre lies in the tetrahedron `t` (CIELAB).
-/// Degenerate (flat) tetrahedra mark nothing.
+/// Degenerate (flat) tetrahedra and those with a coordinate that is not
+/// finite mark nothing. The loop runs over the tetrahedron's bounding box
+/// clipped to the grid, so it never exceeds `grid.len()` steps.
 pub fn fill_tetrahedron(grid: &Grid, cells: &mut [u8], t: [[f64; 3]; 4]) {
     let e = |i: usize| [t[i][0] - t[0][0], t[i][1] - t[0][1], t[i][2] - t[0][2]];
     let (e1, e2, e3) = (e(1), e(2), e(3));
     let Some(inv) = invert_columns(e1, e2, e3) else {
         return;
     };
-    let mut lo = t[0];
-    let mut hi = t[0];
-    for p in &t[1..] {
-        for d in 0..3 {
-            lo[d] = lo[d].min(p[d]);
-            hi[d] = hi[d].max(p[d]);
-        }
-    }
-    let (Some(sl), Some(sa), Some(sb)) = (
-        grid.span(0, lo[0], hi[0]),
-        grid.span(1, lo[1], hi[1]),
-        grid.span(2, lo[2], hi[2]),
-    ) else {
+    let Some([sl, sa, sb]) = box_spans(grid, &t) else {
         return;
     };
     const EPS: f64 = 1e-9;
@@ -137,10 +234,7 @@ pub fn fill_closed_mesh(grid: &Grid, cells: &mut [u8], vertices: &[[f64; 3]], tr
     let mut hits: Vec<(u32, f64)> = Vec::new();
     for tri in triangles {
         let [p, q, r] = tri.map(|i| vertices[i as usize]);
-        let (Some(sa), Some(sb)) = (
-            grid.span(1, p[1].min(q[1]).min(r[1]), p[1].max(q[1]).max(r[1])),
-            grid.span(2, p[2].min(q[2]).min(r[2]), p[2].max(q[2]).max(r[2])),
-        ) else {
+        let Some([sa, sb]) = column_spans(grid, &[p, q, r]) else {
             continue;
         };
         // 2D barycentric coordinates in the (a*, b*) plane.
@@ -186,14 +280,19 @@ pub fn fill_closed_mesh(grid: &Grid, cells: &mut [u8], vertices: &[[f64; 3]], tr
 
 /// Sets every empty voxel that cannot be reached from the grid's border
 /// through empty voxels (6-connected): cavities enclosed by the solid.
+/// `grid` holds at most [`MAX_VOXELS`] voxels, as every grid from
+/// [`Grid::covering`] does.
 pub fn fill_cavities(grid: &Grid, cells: &mut [u8]) {
     const OUTSIDE: u8 = 2;
+    debug_assert!(grid.len() <= MAX_VOXELS);
     let [nl, na, nb] = grid.dims;
     let mut stack = Vec::new();
-    let push = |cells: &mut [u8], stack: &mut Vec<usize>, i: usize| {
+    // Indices fit in u32 (a grid holds at most MAX_VOXELS < 2³² voxels),
+    // which halves the stack's worst case (every voxel empty).
+    let push = |cells: &mut [u8], stack: &mut Vec<u32>, i: usize| {
         if cells[i] == 0 {
             cells[i] = OUTSIDE;
-            stack.push(i);
+            stack.push(i as u32);
         }
     };
     for ia in 0..na {
@@ -208,6 +307,7 @@ pub fn fill_cavities(grid: &Grid, cells: &mut [u8]) {
     let col = nl;
     let plane = nl * nb;
     while let Some(i) = stack.pop() {
+        let i = i as usize;
         let il = i % nl;
         let ib = (i / nl) % nb;
         let ia = i / plane;
@@ -250,6 +350,30 @@ impl Solid {
     /// Volume in cubic CIELAB units: inside voxel centres times h³.
     pub fn volume(&self) -> f64 {
         self.count() as f64 * self.grid.h.powi(3)
+    }
+
+    /// How many 2 × 2 × 2 blocks of neighbouring voxels are neither all
+    /// inside nor all outside: the cubes the boundary mesh passes through,
+    /// each giving at most 12 triangles (marching tetrahedra, 6 per cube).
+    pub fn boundary_cubes(&self) -> usize {
+        let [nl, na, nb] = self.grid.dims;
+        if nl < 2 || na < 2 || nb < 2 {
+            return 0;
+        }
+        let g = &self.grid;
+        let mut n = 0;
+        for ia in 0..na - 1 {
+            for ib in 0..nb - 1 {
+                for il in 0..nl - 1 {
+                    let mut sum = 0;
+                    for c in 0..8 {
+                        sum += self.cells[g.index(il + (c & 1), ia + ((c >> 1) & 1), ib + ((c >> 2) & 1))];
+                    }
+                    n += usize::from(sum != 0 && sum != 8);
+                }
+            }
+        }
+        n
     }
 
     fn at(&self, il: isize, ia: isize, ib: isize) -> f64 {
@@ -307,7 +431,7 @@ mod tests {
         let det: f64 = a[0] * (b[1] * c[2] - b[2] * c[1]) - a[1] * (b[0] * c[2] - b[2] * c[0])
             + a[2] * (b[0] * c[1] - b[1] * c[0]);
         let exact = det.abs() / 6.0;
-        let grid = Grid::covering([10.0, 0.0, -3.0], [40.0, 30.0, 35.0], 0.25);
+        let grid = Grid::covering([10.0, 0.0, -3.0], [40.0, 30.0, 35.0], 0.25).unwrap();
         let mut cells = vec![0; grid.len()];
         fill_tetrahedron(&grid, &mut cells, t);
         let v = cells.iter().filter(|&&c| c == 1).count() as f64 * 0.25f64.powi(3);
@@ -316,7 +440,7 @@ mod tests {
 
     #[test]
     fn cavity_fill_closes_a_hollow_box_only() {
-        let grid = Grid::covering([0.0; 3], [10.0; 3], 1.0);
+        let grid = Grid::covering([0.0; 3], [10.0; 3], 1.0).unwrap();
         let mut cells = vec![0; grid.len()];
         let [nl, na, nb] = grid.dims;
         for ia in 3..na - 3 {
@@ -338,5 +462,48 @@ mod tests {
         // A cube shell of side s encloses (s − 2)³ voxels (counting).
         let s = [nl - 6, na - 6, nb - 6];
         assert_eq!(after - before, (s[0] - 2) * (s[1] - 2) * (s[2] - 2));
+    }
+
+    #[test]
+    fn covering_refuses_boxes_beyond_the_cap_and_not_finite() {
+        assert!(matches!(
+            Grid::covering([0.0; 3], [1e4; 3], 1.0),
+            Err(GridError::TooLarge { .. })
+        ));
+        assert!(matches!(
+            Grid::covering([0.0; 3], [f64::INFINITY, 1.0, 1.0], 1.0),
+            Err(GridError::Degenerate { .. })
+        ));
+        assert!(matches!(
+            Grid::covering([0.0; 3], [1.0; 3], 0.0),
+            Err(GridError::Degenerate { .. })
+        ));
+        // One axis beyond usize as a float must not wrap to a small count.
+        assert!(matches!(
+            Grid::covering([0.0; 3], [1e300, 1.0, 1.0], 1.0),
+            Err(GridError::TooLarge { .. })
+        ));
+        let g = Grid::covering([0.0, -100.0, -100.0], [100.0, 100.0, 100.0], 1.0).unwrap();
+        assert!(g.len() <= MAX_VOXELS);
+    }
+
+    #[test]
+    fn work_is_the_sum_of_bounding_boxes() {
+        let grid = Grid::covering([0.0; 3], [20.0; 3], 1.0).unwrap();
+        // A box of 10 × 10 × 10 CIELAB units holds 10 voxel centres per axis
+        // (the centres are offset from whole numbers by the jitter).
+        let t = [[5.0, 5.0, 5.0], [15.0, 5.0, 5.0], [5.0, 15.0, 5.0], [5.0, 5.0, 15.0]];
+        assert_eq!(tetrahedra_work(&grid, &[t]), 1000);
+        assert_eq!(tetrahedra_work(&grid, &[t, t]), 2000);
+        let nan = [[f64::NAN; 3], t[1], t[2], t[3]];
+        assert_eq!(tetrahedra_work(&grid, &[nan]), 0);
+        // Columns are counted in the (a*, b*) plane only.
+        let v = vec![t[1], t[2], t[3]];
+        assert_eq!(mesh_work(&grid, &v, &[[0, 1, 2]]), 100);
+        // Flat in L* it still crosses columns; flat in b* it crosses none.
+        let level = vec![[5.0, 5.0, 5.0], [5.0, 15.0, 5.0], [5.0, 5.0, 15.0]];
+        assert_eq!(mesh_work(&grid, &level, &[[0, 1, 2]]), 100);
+        let flat = vec![t[0], t[1], t[2]];
+        assert_eq!(mesh_work(&grid, &flat, &[[0, 1, 2]]), 0);
     }
 }

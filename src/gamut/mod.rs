@@ -42,7 +42,7 @@ use crate::color::LabD50;
 use crate::icc::header::{self, Signature};
 use crate::icc::transform::lab_d50_profile;
 use crate::icc::{inspect, IccProfile, RenderingIntent};
-use grid::{Grid, Solid};
+use grid::{Grid, GridError, Solid};
 use mesh::{Locator, Mesh};
 
 /// Why a profile's gamut cannot be computed. Each names the profile.
@@ -54,6 +54,21 @@ pub enum GamutError {
     Transform { name: String },
     #[error("profile '{name}': its device → CIELAB table gives unusable values ({detail})")]
     Sampling { name: String, detail: String },
+    #[error("profile '{name}': its gamut is not plausible ({detail})")]
+    Implausible { name: String, detail: String },
+    #[error("profile '{name}': {source}")]
+    Grid {
+        name: String,
+        #[source]
+        source: GridError,
+    },
+    #[error("profiles '{a}' and '{b}': no shared grid for their coverage: {source}")]
+    CoverageGrid {
+        a: String,
+        b: String,
+        #[source]
+        source: GridError,
+    },
     #[error("profile '{name}': no CIELAB → CMYK table to measure the total-ink limit from; give --ink-limit")]
     NoInkLimit { name: String },
     #[error("the total-ink limit must be between 1 and 400 %, not {value}")]
@@ -203,8 +218,47 @@ fn check_finite(name: &str, lab: &[Px3]) -> Result<(), GamutError> {
     if lab.iter().flatten().all(|v| v.is_finite()) {
         Ok(())
     } else {
-        Err(sampling_err(name, "not-a-number in CIELAB"))
+        Err(sampling_err(name, "CIELAB that is not a finite number"))
     }
+}
+
+/// The CIELAB box (D50, relative colorimetric) that holds every device
+/// colour, `[L*, a*, b*]` lower and upper bounds.
+///
+/// - L*: relative colorimetric maps the media white to L* = 100 and nothing
+///   a device makes is lighter, except by rounding and encoding: the
+///   built-in press re-saved as an ICC v2 profile (whose 16-bit CIELAB
+///   encoding puts L* = 100 at FF00h, not FFFFh) reaches L* 100.39
+///   (measured), so 101 leaves a margin. Below, a display whose primaries
+///   are monochromatic lights (the edge of what is physical) reaches
+///   L* −4 when its white is adapted to D50 (computed with the Bradford
+///   transform from the CIE 1931 colour-matching functions in
+///   `data/cie1931_2deg_5nm.csv`, primaries 700/510/400 nm, D65 white).
+/// - a*, b*: the same monochromatic-primary displays reach |a*| 366 and
+///   |b*| 174 (primaries 780/505/380 nm and 700/520/380 nm); ProPhoto
+///   (ROMM) RGB reaches a* −187 and b* ±172, BT.2020 a* −161. ±400 holds
+///   them all.
+///
+/// A profile whose colours leave this box describes no device: its tables
+/// or colorants are damaged. (Encoding spaces with imaginary primaries,
+/// whose colours can have negative luminance, fall outside as well.)
+pub const PLAUSIBLE_LAB: ([f64; 3], [f64; 3]) = ([-5.0, -400.0, -400.0], [101.0, 400.0, 400.0]);
+
+/// Refuses sampled device colours outside [`PLAUSIBLE_LAB`].
+fn check_plausible(name: &str, lo: [f64; 3], hi: [f64; 3]) -> Result<(), GamutError> {
+    let (min, max) = PLAUSIBLE_LAB;
+    for (d, axis) in ["L*", "a*", "b*"].iter().enumerate() {
+        if lo[d] < min[d] || hi[d] > max[d] {
+            return Err(GamutError::Implausible {
+                name: name.to_string(),
+                detail: format!(
+                    "its colours reach {axis} {:.1}…{:.1}, but a device's colours lie within {axis} {}…{} after relative colorimetric mapping",
+                    lo[d], hi[d], min[d], max[d]
+                ),
+            });
+        }
+    }
+    Ok(())
 }
 
 impl Gamut {
@@ -252,8 +306,12 @@ impl Gamut {
             return Err(sampling_err(&p.name, "the RGB cube maps to (almost) no volume"));
         }
         let (lo, hi) = surface.bounds().ok_or_else(|| sampling_err(&p.name, "no samples"))?;
+        check_plausible(&p.name, lo, hi)?;
+        let grid = own_grid(&p.name, lo, hi, opts.voxel)?;
+        let work = grid::mesh_work(&grid, &surface.vertices, &surface.triangles);
+        check_work(&p.name, work, grid.dims[1] * grid.dims[2], "the RGB cube's faces")?;
         let shape = Shape::Surface(surface.clone());
-        let solid = rasterise(&shape, Grid::covering(lo, hi, opts.voxel));
+        let solid = rasterise(&shape, grid);
         Ok(Gamut {
             name: p.name.clone(),
             kind: DeviceKind::Rgb,
@@ -303,11 +361,28 @@ impl Gamut {
             }
         }
         let (lo, hi) = mesh::bounds(&lab).ok_or_else(|| sampling_err(&p.name, "no samples"))?;
+        check_plausible(&p.name, lo, hi)?;
+        let grid = own_grid(&p.name, lo, hi, opts.voxel)?;
+        check_work(
+            &p.name,
+            grid::tetrahedra_work(&grid, &tets),
+            grid.len(),
+            "the ink domain's cells",
+        )?;
         let shape = Shape::Cells(tets);
-        let solid = rasterise(&shape, Grid::covering(lo, hi, opts.voxel));
+        let solid = rasterise(&shape, grid);
         let volume = solid.volume();
         if volume.is_nan() || volume <= 1.0 {
             return Err(sampling_err(&p.name, "the ink domain maps to (almost) no volume"));
+        }
+        let cubes = solid.boundary_cubes();
+        if cubes > MAX_BOUNDARY_CUBES {
+            return Err(GamutError::Implausible {
+                name: p.name.clone(),
+                detail: format!(
+                    "its solid is scattered: its boundary passes through {cubes} voxel cubes, more than the {MAX_BOUNDARY_CUBES} a device's gamut needs"
+                ),
+            });
         }
         let surface = mesh::isosurface(&solid);
         Ok(Gamut {
@@ -429,12 +504,65 @@ pub fn ink_domain_faces(limit: f64, n: usize) -> Vec<Vec<Px4>> {
     faces
 }
 
+/// The grid of a gamut's own solid.
+fn own_grid(name: &str, lo: [f64; 3], hi: [f64; 3], voxel: f64) -> Result<Grid, GamutError> {
+    Grid::covering(lo, hi, voxel).map_err(|source| GamutError::Grid {
+        name: name.to_string(),
+        source,
+    })
+}
+
+/// How many times over the rasterisation of a gamut may examine its grid
+/// (voxels for the ink domain's tetrahedra, (a*, b*) columns for the RGB
+/// cube's faces, see [`grid::tetrahedra_work`] and [`grid::mesh_work`]).
+///
+/// A real device's samples are smooth: neighbouring samples are close, so
+/// the cells' bounding boxes overlap only where the faces' images do.
+/// Measured: RGB 0.5 to 3.4 (the built-in screens, 8 to 512 steps per face),
+/// CMYK 4.7 to 5.8 (offset-coated, 12 to 36 steps, voxels of 0.5 to 2). A
+/// damaged table whose neighbouring samples jump across the CIELAB box
+/// makes every cell span much of it (a lut16 table read as lut8 measured
+/// 12,700) and would take hours; 32 leaves a margin of five or more.
+pub const MAX_WORK_RATIO: u64 = 32;
+
+/// Most boundary cubes (see [`Solid::boundary_cubes`]) a CMYK solid's
+/// boundary mesh may be made from: 2²⁰, at most 12 Mi triangles. The
+/// built-in press has 56 k at voxels of 1 CIELAB unit and 227 k at 0.5; a
+/// solid with far more is dust from a damaged table, and its mesh would
+/// take gigabytes.
+pub const MAX_BOUNDARY_CUBES: usize = 1 << 20;
+
+/// Refuses a rasterisation that would examine its grid (`size` voxels or
+/// columns) more than [`MAX_WORK_RATIO`] times over.
+fn check_work(name: &str, work: u64, size: usize, what: &str) -> Result<(), GamutError> {
+    let size = size.max(1) as u64;
+    if work <= MAX_WORK_RATIO.saturating_mul(size) {
+        return Ok(());
+    }
+    Err(GamutError::Implausible {
+        name: name.to_string(),
+        detail: format!(
+            "neighbouring samples of {what} lie far apart: filling them would sweep the CIELAB grid {} times over, a device's tables at most {MAX_WORK_RATIO}",
+            work / size
+        ),
+    })
+}
+
+/// Memory the parallel fill of tetrahedra may spend on private copies of
+/// the cells, bytes (one byte per voxel per copy). 256 MiB: a real gamut's
+/// grid (5 to 20 Mi voxels) still gets a copy per thread on 12 or more
+/// threads, and a grid at the cap gets a single copy.
+const RASTER_COPY_BYTES: usize = 256 << 20;
+
 fn rasterise(shape: &Shape, grid: Grid) -> Solid {
     let mut cells = vec![0u8; grid.len()];
     match shape {
         Shape::Surface(m) => grid::fill_closed_mesh(&grid, &mut cells, &m.vertices, &m.triangles),
         Shape::Cells(tets) => {
-            let parts = rayon::current_num_threads().max(1);
+            // One private copy of the cells per part, so the parts are
+            // bounded by memory as well as by threads.
+            let copies = (RASTER_COPY_BYTES / grid.len().max(1)).max(1);
+            let parts = rayon::current_num_threads().clamp(1, copies);
             let chunk = tets.len().div_ceil(parts).max(1);
             let partial: Vec<Vec<u8>> = tets
                 .par_chunks(chunk)
@@ -499,12 +627,16 @@ pub const COVERAGE_MAX_VOXELS: f64 = 8.0e6;
 
 /// Coverage both ways between two gamuts, counted on one shared voxel grid
 /// of edge at least `voxel`.
-pub fn coverage_pair(a: &Gamut, b: &Gamut, voxel: f64) -> (Coverage, Coverage) {
+pub fn coverage_pair(a: &Gamut, b: &Gamut, voxel: f64) -> Result<(Coverage, Coverage), GamutError> {
     let lo = [0, 1, 2].map(|d| a.lo[d].min(b.lo[d]));
     let hi = [0, 1, 2].map(|d| a.hi[d].max(b.hi[d]));
     let box_volume: f64 = (0..3).map(|d| hi[d] - lo[d] + 4.0 * voxel).product();
     let h = voxel.max((box_volume / COVERAGE_MAX_VOXELS).cbrt());
-    let grid = Grid::covering(lo, hi, h);
+    let grid = Grid::covering(lo, hi, h).map_err(|source| GamutError::CoverageGrid {
+        a: a.name.clone(),
+        b: b.name.clone(),
+        source,
+    })?;
     let (sa, sb) = rayon::join(|| a.rasterise_on(grid.clone()), || b.rasterise_on(grid.clone()));
     let (mut na, mut nb, mut nab) = (0usize, 0usize, 0usize);
     for (x, y) in sa.cells.iter().zip(&sb.cells) {
@@ -514,7 +646,7 @@ pub fn coverage_pair(a: &Gamut, b: &Gamut, voxel: f64) -> (Coverage, Coverage) {
     }
     let v = h.powi(3);
     let share = |n: usize| if n == 0 { 0.0 } else { nab as f64 / n as f64 };
-    (
+    Ok((
         Coverage {
             a: a.name.clone(),
             b: b.name.clone(),
@@ -527,21 +659,21 @@ pub fn coverage_pair(a: &Gamut, b: &Gamut, voxel: f64) -> (Coverage, Coverage) {
             a_inside_b: share(nb),
             intersection_volume: nab as f64 * v,
         },
-    )
+    ))
 }
 
 /// Every ordered pair (A, B) with A ≠ B, A in input order, then B.
-pub fn coverage_all(gamuts: &[Gamut], voxel: f64) -> Vec<Coverage> {
+pub fn coverage_all(gamuts: &[Gamut], voxel: f64) -> Result<Vec<Coverage>, GamutError> {
     let n = gamuts.len();
     let mut table: Vec<Option<Coverage>> = vec![None; n * n];
     for i in 0..n {
         for j in i + 1..n {
-            let (ab, ba) = coverage_pair(&gamuts[i], &gamuts[j], voxel);
+            let (ab, ba) = coverage_pair(&gamuts[i], &gamuts[j], voxel)?;
             table[i * n + j] = Some(ab);
             table[j * n + i] = Some(ba);
         }
     }
-    table.into_iter().flatten().collect()
+    Ok(table.into_iter().flatten().collect())
 }
 
 /// Which test decides whether a palette colour is printable.
@@ -576,4 +708,37 @@ pub fn nearest_brute_force(lab: LabD50, points: &[Px3]) -> f64 {
         .iter()
         .map(|p| delta_e00(lab, LabD50::from_array(*p)))
         .fold(f64::INFINITY, f64::min)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn plausible_box_admits_real_gamuts_and_refuses_wider() {
+        // sRGB and ProPhoto bounds as the sampling gives them (computed).
+        assert!(check_plausible("s", [0.0, -79.0, -112.0], [100.0, 94.0, 93.0]).is_ok());
+        assert!(check_plausible("p", [0.0, -187.0, -172.0], [100.0, 145.0, 172.0]).is_ok());
+        // The v2 CIELAB encoding's white.
+        assert!(check_plausible("v2", [9.4, -40.0, -50.0], [100.39, 70.0, 90.0]).is_ok());
+        for (lo, hi) in [
+            ([0.0, 0.0, 0.0], [101.5, 10.0, 10.0]),
+            ([-6.0, 0.0, 0.0], [100.0, 10.0, 10.0]),
+            ([0.0, -401.0, 0.0], [100.0, 10.0, 10.0]),
+            ([0.0, 0.0, 0.0], [100.0, 10.0, 15850.0]),
+        ] {
+            let e = check_plausible("x.icc", lo, hi).unwrap_err().to_string();
+            assert!(e.contains("x.icc") && e.contains("not plausible"), "{e}");
+        }
+    }
+
+    #[test]
+    fn work_beyond_the_ratio_is_refused() {
+        assert!(check_work("x", 32 * 1000, 1000, "cells").is_ok());
+        let e = check_work("x", 32 * 1000 + 1, 1000, "cells").unwrap_err().to_string();
+        assert!(e.contains("not plausible") && e.contains("32"), "{e}");
+        // The budget saturates instead of wrapping.
+        assert!(check_work("x", u64::MAX, 1 << 40, "cells").is_err());
+        assert!(check_work("x", u64::MAX, usize::MAX, "cells").is_ok());
+    }
 }

@@ -25,7 +25,15 @@ pub enum HeaderError {
     },
     #[error("damaged tag table: {count} tags do not fit in the profile")]
     TagCount { count: usize },
+    #[error("damaged tag table: tag '{sig}' declares {size} bytes, more than the {limit} a tag may have")]
+    TagTooLarge { sig: Signature, size: usize, limit: usize },
 }
+
+/// The largest tag accepted, bytes: 48 MiB. The largest lookup table
+/// accepted (a CLUT of `tags::MAX_CLUT_VALUES` 16-bit values, 32 MiB) fits
+/// with its curves; real tables are far smaller (a CMYK → Lab table of 17⁴
+/// nodes is 0.5 MB, a CMYK device link of 33⁴ nodes 9.5 MB).
+pub const MAX_TAG_BYTES: usize = 48 << 20;
 
 /// A four-character ICC signature.
 #[derive(Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord)]
@@ -147,6 +155,13 @@ impl Header {
                 offset: be_u32(bytes, at + 4) as usize,
                 size: be_u32(bytes, at + 8) as usize,
             };
+            if entry.size > MAX_TAG_BYTES {
+                return Err(HeaderError::TagTooLarge {
+                    sig: entry.sig,
+                    size: entry.size,
+                    limit: MAX_TAG_BYTES,
+                });
+            }
             if entry.offset.checked_add(entry.size).is_none_or(|end| end > declared) {
                 return Err(HeaderError::TagOutOfBounds {
                     sig: entry.sig,
@@ -186,7 +201,7 @@ impl Header {
     }
 }
 
-/// Decodes an XYZType tag (ICC.1:2010, 10.31): the first XYZ number.
+/// Decodes an XYZType tag (ICC.1:2010, 10.29): the first XYZ number.
 pub fn read_xyz(bytes: &[u8], tag: TagEntry) -> Option<[f64; 3]> {
     let body = bytes.get(tag.offset..tag.offset + tag.size)?;
     if body.len() < 20 || &body[0..4] != b"XYZ " {

@@ -5,12 +5,23 @@
 pub mod builtin;
 pub mod header;
 pub mod inspect;
+pub mod tags;
 pub mod transform;
 
 use std::fmt;
+use std::fs::{File, Metadata};
+use std::io::Read;
 use std::path::{Path, PathBuf};
 
 use header::{Header, HeaderError, Signature, TagEntry};
+use tags::TagError;
+
+/// The largest profile inkfit reads, bytes: 64 MiB. Display and press
+/// profiles are a few kB to a few MB (the built-in press is 0.9 MB); large
+/// device links and six-colour press profiles reach tens of MB. The cap
+/// keeps a huge or endless file (a device, a mistaken path) from filling
+/// memory.
+pub const MAX_PROFILE_BYTES: usize = 64 << 20;
 
 /// Errors from loading or using a profile. Each names the profile.
 #[derive(Debug, thiserror::Error)]
@@ -27,6 +38,16 @@ pub enum IccError {
         #[source]
         source: std::io::Error,
     },
+    #[error("profile '{name}': {source}")]
+    BadTag {
+        name: String,
+        #[source]
+        source: TagError,
+    },
+    #[error("profile '{name}': not a regular file but {what}; give the path of an ICC profile file")]
+    NotAFile { name: String, what: &'static str },
+    #[error("profile '{name}': larger than {} MiB, the most inkfit reads for a profile", MAX_PROFILE_BYTES >> 20)]
+    TooLarge { name: String },
     #[error("profile '{name}': lcms2 cannot open it (a damaged or unsupported tag)")]
     Open { name: String },
     #[error("profile '{name}': no such file and no built-in of that name (built-ins: {builtins})")]
@@ -166,22 +187,21 @@ impl IccProfile {
             return Self::from_bytes(spec, Origin::Builtin, bytes?);
         }
         let path = Path::new(spec);
-        if !path.exists() {
-            return Err(IccError::Unknown {
-                name: spec.to_string(),
-                builtins: builtin::names().join(", "),
-            });
-        }
-        let bytes = std::fs::read(path).map_err(|source| IccError::Read {
-            name: spec.to_string(),
-            source,
-        })?;
+        let bytes = read_bounded(spec, path)?;
         Self::from_bytes(spec, Origin::File(path.to_path_buf()), bytes)
     }
 
-    /// Checks and opens a profile held in memory.
+    /// Checks and opens a profile held in memory: the header and tag table,
+    /// then every tag lcms2 will decode, and only then lcms2.
     pub fn from_bytes(name: &str, origin: Origin, bytes: Vec<u8>) -> Result<Self, IccError> {
+        if bytes.len() > MAX_PROFILE_BYTES {
+            return Err(IccError::TooLarge { name: name.to_string() });
+        }
         let header = Header::parse(&bytes).map_err(|source| IccError::Malformed {
+            name: name.to_string(),
+            source,
+        })?;
+        tags::validate(&header, &bytes).map_err(|source| IccError::BadTag {
             name: name.to_string(),
             source,
         })?;
@@ -325,6 +345,90 @@ impl IccProfile {
             TableUse::Missing => Some(format!("{n}: no table serves {intent}")),
         }
     }
+}
+
+/// Reads the profile file at `path`: only a regular file (after following
+/// links), at most [`MAX_PROFILE_BYTES`]. The file is opened without
+/// blocking and checked again once open, so a FIFO or device put in its
+/// place after the first check is refused too, and the read stops one byte
+/// past the cap whatever size the file system reports.
+fn read_bounded(name: &str, path: &Path) -> Result<Vec<u8>, IccError> {
+    let read_err = |source| IccError::Read {
+        name: name.to_string(),
+        source,
+    };
+    let meta = match std::fs::metadata(path) {
+        Ok(m) => m,
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => {
+            return Err(IccError::Unknown {
+                name: name.to_string(),
+                builtins: builtin::names().join(", "),
+            })
+        }
+        Err(e) => return Err(read_err(e)),
+    };
+    require_regular(name, &meta)?;
+    let file = open_nonblocking(path).map_err(read_err)?;
+    let meta = file.metadata().map_err(read_err)?;
+    require_regular(name, &meta)?;
+    let cap = MAX_PROFILE_BYTES as u64;
+    if meta.len() > cap {
+        return Err(IccError::TooLarge { name: name.to_string() });
+    }
+    let mut bytes = Vec::with_capacity(meta.len() as usize);
+    file.take(cap + 1).read_to_end(&mut bytes).map_err(read_err)?;
+    if bytes.len() > MAX_PROFILE_BYTES {
+        return Err(IccError::TooLarge { name: name.to_string() });
+    }
+    Ok(bytes)
+}
+
+#[cfg(unix)]
+fn open_nonblocking(path: &Path) -> std::io::Result<File> {
+    use std::os::unix::fs::OpenOptionsExt;
+    // Without O_NONBLOCK, opening a FIFO waits for a writer.
+    std::fs::OpenOptions::new()
+        .read(true)
+        .custom_flags(libc::O_NONBLOCK)
+        .open(path)
+}
+
+#[cfg(not(unix))]
+fn open_nonblocking(path: &Path) -> std::io::Result<File> {
+    File::open(path)
+}
+
+fn require_regular(name: &str, meta: &Metadata) -> Result<(), IccError> {
+    let t = meta.file_type();
+    if t.is_file() {
+        return Ok(());
+    }
+    let what = if t.is_dir() { "a directory" } else { special_kind(&t) };
+    Err(IccError::NotAFile {
+        name: name.to_string(),
+        what,
+    })
+}
+
+#[cfg(unix)]
+fn special_kind(t: &std::fs::FileType) -> &'static str {
+    use std::os::unix::fs::FileTypeExt;
+    if t.is_fifo() {
+        "a FIFO (named pipe)"
+    } else if t.is_char_device() {
+        "a character device"
+    } else if t.is_block_device() {
+        "a block device"
+    } else if t.is_socket() {
+        "a socket"
+    } else {
+        "a special file"
+    }
+}
+
+#[cfg(not(unix))]
+fn special_kind(_: &std::fs::FileType) -> &'static str {
+    "a special file"
 }
 
 /// Two tag entries hold the same data: one shared offset, or equal bytes.

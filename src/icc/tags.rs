@@ -1,0 +1,828 @@
+//! Checks of the tags that lcms2 decodes, made on the profile's bytes before
+//! lcms2 opens it: lookup tables (lut8, lut16, lutAToB, lutBToA and the
+//! multiProcessElements header), tone curves, and the XYZ numbers and
+//! adaptation matrix of matrix/TRC profiles.
+//!
+//! A table whose channel counts do not match the profile's colour spaces, or
+//! whose declared parts do not fit in its tag, cannot be right; lcms2 may
+//! still read it (as something else) and produce values that make later
+//! work unbounded. Every check here is on sizes and counts read from the
+//! tag, with checked arithmetic, so the checks themselves are bounded by the
+//! tag table.
+//!
+//! Clause numbers are those of ICC.1:2010 (profile version 4.3): tag
+//! definitions in 9.2, tag types in 10 (10.5 curveType, 10.8 lut16Type,
+//! 10.9 lut8Type, 10.10 lutAToBType, 10.11 lutBToAType, 10.14
+//! multiProcessElementsType, 10.16 parametricCurveType, 10.20
+//! s15Fixed16ArrayType, 10.29 XYZType); the numbers of the individual tag
+//! definitions in 9.2 are given from memory.
+
+use super::header::{Header, Signature, SPACE_CMYK, SPACE_GRAY, SPACE_LAB, SPACE_RGB, SPACE_XYZ};
+
+/// The most values (grid nodes × output channels) a CLUT may hold: 2²⁴,
+/// 32 MiB once lcms2 holds them as 16-bit numbers. A 4-channel device link
+/// with 33⁴ nodes has 4.7 Mi values, a CMYK → Lab table of 17⁴ nodes 0.25 Mi,
+/// a six-channel table of 11⁶ nodes 10.6 Mi (counting).
+pub const MAX_CLUT_VALUES: u64 = 1 << 24;
+
+/// Bound on each component of the colorant and white XYZ numbers (Y of the
+/// white = 1). The colorants of a matrix/TRC profile sum to the D50 white
+/// (ICC.1:2010, F.3), so real primaries have components within 0…1; wide
+/// encoding spaces with imaginary primaries go a little below 0 or above 1.
+/// ±5 admits all of them with a wide margin and still refuses the values a
+/// damaged s15Fixed16Number gives (up to ±32768).
+pub const XYZ_LIMIT: f64 = 5.0;
+
+/// Why a tag cannot be right. Each names the tag.
+#[derive(Clone, Debug, PartialEq, thiserror::Error)]
+pub enum TagError {
+    #[error("tag '{tag}' has type '{found}', but it must be {allowed} ({clause})")]
+    WrongType {
+        tag: Signature,
+        found: Signature,
+        allowed: &'static str,
+        clause: &'static str,
+    },
+    #[error("tag '{tag}' ({kind}) needs {need} bytes, but the tag holds {size}")]
+    TooShort {
+        tag: Signature,
+        kind: &'static str,
+        need: u64,
+        size: usize,
+    },
+    #[error("tag '{tag}': the table has {found} {side} channels, but {wanted_by} has {expected}")]
+    Channels {
+        tag: Signature,
+        side: &'static str,
+        found: usize,
+        /// What fixes the count: "the data colour space 'CMYK'", say.
+        wanted_by: String,
+        expected: usize,
+    },
+    #[error("tag '{tag}': the profile's {role} '{space}' is not an ICC colour space, so the table's channels cannot be checked")]
+    UnknownSpace {
+        tag: Signature,
+        role: &'static str,
+        space: Signature,
+    },
+    #[error("tag '{tag}': the CLUT has {points} grid points along {along}; a CLUT needs at least 2 ({clause})")]
+    GridPoints {
+        tag: Signature,
+        along: String,
+        points: u8,
+        clause: &'static str,
+    },
+    #[error("tag '{tag}': a CLUT of {grid} nodes × {outputs} outputs exceeds the limit of {limit} values")]
+    ClutTooLarge {
+        tag: Signature,
+        grid: String,
+        outputs: usize,
+        limit: u64,
+    },
+    #[error("tag '{tag}': {part} needs bytes {start}…{end}, but the tag has {size}")]
+    OutOfTag {
+        tag: Signature,
+        part: String,
+        start: u64,
+        end: u64,
+        size: usize,
+    },
+    #[error("tag '{tag}': {detail}")]
+    Structure { tag: Signature, detail: String },
+    #[error("tag '{tag}': {what} is {value:.4}, outside the plausible range {lo}…{hi}")]
+    Implausible {
+        tag: Signature,
+        what: String,
+        value: f64,
+        lo: f64,
+        hi: f64,
+    },
+}
+
+/// Channels of a colour space signature (ICC.1:2010, 7.2.6, table 19).
+pub fn channels_of(space: Signature) -> Option<usize> {
+    let s = &space.0;
+    Some(match s {
+        _ if space == SPACE_GRAY => 1,
+        _ if space == SPACE_CMYK => 4,
+        _ if [SPACE_XYZ, SPACE_LAB, SPACE_RGB].contains(&space) => 3,
+        b"Luv " | b"YCbr" | b"Yxy " | b"HSV " | b"HLS " | b"CMY " => 3,
+        // 2CLR … 9CLR, ACLR … FCLR: 2 to 15 colours.
+        [c, b'C', b'L', b'R'] => match c {
+            b'2'..=b'9' => usize::from(c - b'0'),
+            b'A'..=b'F' => usize::from(c - b'A') + 10,
+            _ => return None,
+        },
+        _ => return None,
+    })
+}
+
+/// Checks every tag entry lcms2 would decode (every entry, not only the
+/// first of a signature, so that a duplicate cannot slip past).
+pub fn validate(header: &Header, bytes: &[u8]) -> Result<(), TagError> {
+    for &entry in &header.tags {
+        let Some(data) = bytes.get(entry.offset..entry.offset + entry.size) else {
+            // The header reader has already refused entries outside the profile.
+            continue;
+        };
+        let tag = Tag { sig: entry.sig, data };
+        match &entry.sig.0 {
+            b"A2B0" | b"A2B1" | b"A2B2" => table(tag, header, Flow::ToPcs)?,
+            b"B2A0" | b"B2A1" | b"B2A2" => table(tag, header, Flow::FromPcs)?,
+            b"gamt" => table(tag, header, Flow::Gamut)?,
+            b"pre0" | b"pre1" | b"pre2" => table(tag, header, Flow::Preview)?,
+            b"D2B0" | b"D2B1" | b"D2B2" | b"D2B3" => multi_process(tag, header, Flow::ToPcs)?,
+            b"B2D0" | b"B2D1" | b"B2D2" | b"B2D3" => multi_process(tag, header, Flow::FromPcs)?,
+            b"rTRC" | b"gTRC" | b"bTRC" | b"kTRC" => {
+                // ICC.1:2010, 9.2 (redTRCTag … grayTRCTag): curveType or
+                // parametricCurveType.
+                curve(tag, 0, "the tone curve")?;
+            }
+            b"rXYZ" | b"gXYZ" | b"bXYZ" => xyz(tag, -XYZ_LIMIT)?,
+            // A white is a real colour: every component positive.
+            b"wtpt" => xyz(tag, 0.0)?,
+            b"chad" => adaptation_matrix(tag)?,
+            _ => {}
+        }
+    }
+    Ok(())
+}
+
+/// Which way a table converts, which fixes its channel counts.
+#[derive(Clone, Copy, PartialEq, Eq)]
+enum Flow {
+    /// A2Bn (ICC.1:2010, 9.2.1–9.2.3), D2Bn: device → PCS.
+    ToPcs,
+    /// B2An (9.2.6–9.2.8), B2Dn: PCS → device.
+    FromPcs,
+    /// gamt (9.2.28): PCS → one channel, 0 in gamut.
+    Gamut,
+    /// pre0…pre2 (9.2.38–9.2.40): PCS → PCS.
+    Preview,
+}
+
+/// A tag's data and signature.
+#[derive(Clone, Copy)]
+struct Tag<'a> {
+    sig: Signature,
+    data: &'a [u8],
+}
+
+impl Tag<'_> {
+    fn need(&self, kind: &'static str, need: u64) -> Result<(), TagError> {
+        if (self.data.len() as u64) < need {
+            Err(TagError::TooShort {
+                tag: self.sig,
+                kind,
+                need,
+                size: self.data.len(),
+            })
+        } else {
+            Ok(())
+        }
+    }
+
+    /// Bytes `start..start + len` of the tag, or an error naming `part`.
+    fn part(&self, part: impl Into<String>, start: u64, len: u64) -> Result<&[u8], TagError> {
+        let end = start.checked_add(len);
+        match end {
+            Some(end) if end <= self.data.len() as u64 => Ok(&self.data[start as usize..end as usize]),
+            _ => Err(TagError::OutOfTag {
+                tag: self.sig,
+                part: part.into(),
+                start,
+                end: end.unwrap_or(u64::MAX),
+                size: self.data.len(),
+            }),
+        }
+    }
+
+    fn type_sig(&self) -> Option<Signature> {
+        self.data.get(0..4).map(|b| Signature([b[0], b[1], b[2], b[3]]))
+    }
+
+    fn structure(&self, detail: impl Into<String>) -> TagError {
+        TagError::Structure {
+            tag: self.sig,
+            detail: detail.into(),
+        }
+    }
+}
+
+fn be_u16(b: &[u8], at: usize) -> u16 {
+    u16::from_be_bytes([b[at], b[at + 1]])
+}
+
+fn be_u32(b: &[u8], at: usize) -> u32 {
+    u32::from_be_bytes([b[at], b[at + 1], b[at + 2], b[at + 3]])
+}
+
+/// s15Fixed16Number (ICC.1:2010, 4.6).
+fn s15f16(b: &[u8], at: usize) -> f64 {
+    f64::from(be_u32(b, at) as i32) / 65536.0
+}
+
+/// One side of a table: the channel count it must have and what fixes it.
+type Side = (usize, String);
+
+/// Input and output channels a table of `flow` must have in this profile.
+fn expected_channels(tag: Tag, header: &Header, flow: Flow) -> Result<(Side, Side), TagError> {
+    let space = |role: &'static str, sig: Signature| match channels_of(sig) {
+        Some(n) => Ok((n, format!("the profile's {role} '{sig}'"))),
+        None => Err(TagError::UnknownSpace {
+            tag: tag.sig,
+            role,
+            space: sig,
+        }),
+    };
+    // For a device link the PCS field holds the output device's colour
+    // space (ICC.1:2010, 7.2.7); the same rule then gives its channels.
+    let device = || space("data colour space", header.color_space);
+    let pcs = || space("connection space", header.pcs);
+    Ok(match flow {
+        Flow::ToPcs => (device()?, pcs()?),
+        Flow::FromPcs => (pcs()?, device()?),
+        // ICC.1:2010, 9.2.28: one output channel, 0 for in gamut.
+        Flow::Gamut => (pcs()?, (1, "a gamut tag".to_string())),
+        Flow::Preview => (pcs()?, pcs()?),
+    })
+}
+
+fn check_channels(tag: Tag, header: &Header, flow: Flow, found: (usize, usize)) -> Result<(), TagError> {
+    let (want_in, want_out) = expected_channels(tag, header, flow)?;
+    for (side, f, (expected, wanted_by)) in [("input", found.0, want_in), ("output", found.1, want_out)] {
+        if f != expected {
+            return Err(TagError::Channels {
+                tag: tag.sig,
+                side,
+                found: f,
+                wanted_by,
+                expected,
+            });
+        }
+    }
+    Ok(())
+}
+
+/// A lookup-table tag (A2Bn, B2An, gamt, pren): its type is allowed for the
+/// tag, its channels match the profile and its parts fit.
+fn table(tag: Tag, header: &Header, flow: Flow) -> Result<(), TagError> {
+    let ty = tag.type_sig().ok_or(TagError::TooShort {
+        tag: tag.sig,
+        kind: "a lookup table",
+        need: 4,
+        size: tag.data.len(),
+    })?;
+    // ICC.1:2010, 9.2.1–9.2.3 (AToBn: lut8, lut16 or lutAToB), 9.2.6–9.2.8
+    // (BToAn) and 9.2.28 (gamut: lut8, lut16 or lutBToA), 9.2.38–9.2.40
+    // (preview: any of the four).
+    let (allowed, clause, ok) = match flow {
+        Flow::ToPcs => (
+            "lut8, lut16 or lutAToB",
+            "ICC.1:2010, 9.2.1",
+            &[*b"mft1", *b"mft2", *b"mAB "][..],
+        ),
+        Flow::FromPcs => (
+            "lut8, lut16 or lutBToA",
+            "ICC.1:2010, 9.2.6",
+            &[*b"mft1", *b"mft2", *b"mBA "][..],
+        ),
+        Flow::Gamut => (
+            "lut8, lut16 or lutBToA",
+            "ICC.1:2010, 9.2.28",
+            &[*b"mft1", *b"mft2", *b"mBA "][..],
+        ),
+        Flow::Preview => (
+            "lut8, lut16, lutAToB or lutBToA",
+            "ICC.1:2010, 9.2.38",
+            &[*b"mft1", *b"mft2", *b"mAB ", *b"mBA "][..],
+        ),
+    };
+    if !ok.contains(&ty.0) {
+        return Err(TagError::WrongType {
+            tag: tag.sig,
+            found: ty,
+            allowed,
+            clause,
+        });
+    }
+    match &ty.0 {
+        b"mft1" => lut8_or_16(tag, header, flow, false),
+        b"mft2" => lut8_or_16(tag, header, flow, true),
+        b"mAB " => lut_ab(tag, header, flow, true),
+        _ => lut_ab(tag, header, flow, false),
+    }
+}
+
+/// Grid nodes × outputs of a CLUT with `points` per input, with checked
+/// arithmetic and the [`MAX_CLUT_VALUES`] cap.
+fn clut_values(tag: Tag, points: &[u8], outputs: usize) -> Result<u64, TagError> {
+    let too_large = || {
+        let grid = if points.windows(2).all(|w| w[0] == w[1]) {
+            format!("{}^{}", points[0], points.len())
+        } else {
+            points.iter().map(u8::to_string).collect::<Vec<_>>().join("×")
+        };
+        TagError::ClutTooLarge {
+            tag: tag.sig,
+            grid,
+            outputs,
+            limit: MAX_CLUT_VALUES,
+        }
+    };
+    let mut values = outputs as u64;
+    for &p in points {
+        values = values.checked_mul(u64::from(p)).ok_or_else(too_large)?;
+    }
+    if values > MAX_CLUT_VALUES {
+        return Err(too_large());
+    }
+    Ok(values)
+}
+
+/// lut8Type (ICC.1:2010, 10.9) and lut16Type (10.8): channels, grid points
+/// and table entries, and a size that holds every table.
+fn lut8_or_16(tag: Tag, header: &Header, flow: Flow, wide: bool) -> Result<(), TagError> {
+    let kind = if wide { "a lut16 table" } else { "a lut8 table" };
+    let clause = if wide { "ICC.1:2010, 10.8" } else { "ICC.1:2010, 10.9" };
+    // Bytes 8, 9, 10: input channels, output channels, grid points; 12..48
+    // the 3 × 3 matrix; lut16 adds the entry counts at 48 and 50.
+    tag.need(kind, if wide { 52 } else { 48 })?;
+    let d = tag.data;
+    let (inputs, outputs, points) = (usize::from(d[8]), usize::from(d[9]), d[10]);
+    check_channels(tag, header, flow, (inputs, outputs))?;
+    if points < 2 {
+        return Err(TagError::GridPoints {
+            tag: tag.sig,
+            along: "every input".to_string(),
+            points,
+            clause,
+        });
+    }
+    let values = clut_values(tag, &vec![points; inputs], outputs)?;
+    let (n, m, unit, head) = if wide {
+        let (n, m) = (u64::from(be_u16(d, 48)), u64::from(be_u16(d, 50)));
+        // ICC.1:2010, 10.8: each table has 2 to 4096 entries.
+        for (which, e) in [("input", n), ("output", m)] {
+            if !(2..=4096).contains(&e) {
+                return Err(tag.structure(format!(
+                    "the lut16 {which} tables have {e} entries; 2 to 4096 are allowed ({clause})"
+                )));
+            }
+        }
+        (n, m, 2, 52)
+    } else {
+        // ICC.1:2010, 10.9: 256 entries of one byte per table.
+        (256, 256, 1, 48)
+    };
+    // Input tables, CLUT, output tables, in that order. Each term is at most
+    // 15·4096·2 or MAX_CLUT_VALUES·2, so the sums cannot overflow.
+    let input_tables = inputs as u64 * n * unit;
+    let clut = values * unit;
+    let output_tables = outputs as u64 * m * unit;
+    let mut at = head;
+    for (part, len) in [
+        ("the input tables", input_tables),
+        ("the CLUT", clut),
+        ("the output tables", output_tables),
+    ] {
+        tag.part(part, at, len)?;
+        at += len;
+    }
+    Ok(())
+}
+
+/// lutAToBType (ICC.1:2010, 10.10) and lutBToAType (10.11): channels, the
+/// combination of elements the clauses permit, and each element inside
+/// the tag.
+fn lut_ab(tag: Tag, header: &Header, flow: Flow, a_to_b: bool) -> Result<(), TagError> {
+    let name = if a_to_b { "lutAToB" } else { "lutBToA" };
+    tag.need(if a_to_b { "a lutAToB table" } else { "a lutBToA table" }, 32)?;
+    let d = tag.data;
+    let (inputs, outputs) = (usize::from(d[8]), usize::from(d[9]));
+    check_channels(tag, header, flow, (inputs, outputs))?;
+    // Offsets from the start of the tag at 12 (B curves), 16 (matrix),
+    // 20 (M curves), 24 (CLUT), 28 (A curves); 0 means absent.
+    let off = |at: usize| u64::from(be_u32(d, at));
+    let (b, matrix, m, clut, a) = (off(12), off(16), off(20), off(24), off(28));
+    for (part, o) in [
+        ("the B curves", b),
+        ("the matrix", matrix),
+        ("the M curves", m),
+        ("the CLUT", clut),
+        ("the A curves", a),
+    ] {
+        if o != 0 && (o < 32 || o >= d.len() as u64) {
+            return Err(TagError::OutOfTag {
+                tag: tag.sig,
+                part: format!("{part} (offset {o})"),
+                start: o,
+                end: o,
+                size: d.len(),
+            });
+        }
+    }
+    // ICC.1:2010, 10.10 and 10.11: B alone; M, matrix, B; A, CLUT, B; or
+    // all five. B is always present, A comes with the CLUT and M with the
+    // matrix.
+    if b == 0 || (a == 0) != (clut == 0) || (m == 0) != (matrix == 0) {
+        return Err(tag.structure(format!(
+            "its elements (A {}, CLUT {}, M {}, matrix {}, B {}) are not a combination {name} permits (ICC.1:2010, {})",
+            present(a),
+            present(clut),
+            present(m),
+            present(matrix),
+            present(b),
+            if a_to_b { "10.10" } else { "10.11" }
+        )));
+    }
+    // Without a CLUT nothing changes the number of channels; the matrix is
+    // 3 × 3.
+    if clut == 0 && inputs != outputs {
+        return Err(tag.structure(format!(
+            "without a CLUT a {name} table cannot turn {inputs} channels into {outputs}"
+        )));
+    }
+    // The matrix acts on the output side in lutAToB, on the input side in lutBToA.
+    let matrix_channels = if a_to_b { outputs } else { inputs };
+    if matrix != 0 && matrix_channels != 3 {
+        return Err(tag.structure(format!("its 3 × 3 matrix acts on {matrix_channels} channels")));
+    }
+    if clut != 0 {
+        clut_element(tag, clut, inputs, outputs)?;
+    }
+    if matrix != 0 {
+        // Nine s15Fixed16 coefficients and three offsets.
+        tag.part("the matrix", matrix, 48)?;
+    }
+    let (a_count, b_count) = if a_to_b { (inputs, outputs) } else { (outputs, inputs) };
+    let m_count = b_count;
+    for (part, o, n) in [
+        ("the A curves", a, a_count),
+        ("the M curves", m, m_count),
+        ("the B curves", b, b_count),
+    ] {
+        if o != 0 {
+            curve_set(tag, o, n, part)?;
+        }
+    }
+    Ok(())
+}
+
+fn present(offset: u64) -> &'static str {
+    if offset == 0 {
+        "absent"
+    } else {
+        "present"
+    }
+}
+
+/// The CLUT of a lutAToB/lutBToA table (ICC.1:2010, 10.10.4 and 10.11.4,
+/// from memory): 16 bytes of grid points (the first `inputs` used),
+/// precision (1 or 2 bytes), 3 reserved bytes, then the values.
+fn clut_element(tag: Tag, at: u64, inputs: usize, outputs: usize) -> Result<(), TagError> {
+    let head = tag.part("the CLUT header", at, 20)?;
+    let points = &head[..inputs.min(16)];
+    for (i, &p) in points.iter().enumerate() {
+        if p < 2 {
+            return Err(TagError::GridPoints {
+                tag: tag.sig,
+                along: format!("input {}", i + 1),
+                points: p,
+                clause: "ICC.1:2010, 10.10",
+            });
+        }
+    }
+    let precision = head[16];
+    if precision != 1 && precision != 2 {
+        return Err(tag.structure(format!(
+            "the CLUT's precision is {precision} bytes; 1 or 2 are allowed (ICC.1:2010, 10.10)"
+        )));
+    }
+    let values = clut_values(tag, points, outputs)?;
+    tag.part("the CLUT values", at + 20, values * u64::from(precision))?;
+    Ok(())
+}
+
+/// `count` curves from `at`, each curveType or parametricCurveType and each
+/// starting on a 4-byte boundary (ICC.1:2010, 10.10: "padded to a 4-byte
+/// boundary").
+fn curve_set(tag: Tag, at: u64, count: usize, part: &str) -> Result<(), TagError> {
+    let mut pos = at;
+    for i in 0..count {
+        let len = curve(tag, pos, &format!("curve {} of {part}", i + 1))?;
+        pos = (pos + len).next_multiple_of(4);
+    }
+    Ok(())
+}
+
+/// A curveType (ICC.1:2010, 10.5) or parametricCurveType (10.16) element at
+/// byte `at` of the tag; returns its length in bytes.
+fn curve(tag: Tag, at: u64, part: &str) -> Result<u64, TagError> {
+    let head = tag.part(part.to_string(), at, 12)?;
+    match &head[0..4] {
+        b"curv" => {
+            // A u32 count of u16 entries (0: identity, 1: a gamma).
+            let count = u64::from(be_u32(head, 8));
+            let len = 12 + 2 * count;
+            tag.part(format!("{part} ({count} entries)"), at, len)?;
+            Ok(len)
+        }
+        b"para" => {
+            // Function type 0 to 4 with 1, 3, 4, 5 or 7 s15Fixed16 parameters.
+            let function = be_u16(head, 8);
+            let params = match function {
+                0 => 1,
+                1 => 3,
+                2 => 4,
+                3 => 5,
+                4 => 7,
+                _ => {
+                    return Err(tag.structure(format!(
+                    "{part} is a parametric curve of function type {function}; types 0 to 4 exist (ICC.1:2010, 10.16)"
+                )))
+                }
+            };
+            let len = 12 + 4 * params;
+            tag.part(format!("{part} (function type {function})"), at, len)?;
+            Ok(len)
+        }
+        other => Err(TagError::WrongType {
+            tag: tag.sig,
+            found: Signature([other[0], other[1], other[2], other[3]]),
+            allowed: "curveType or parametricCurveType",
+            clause: "ICC.1:2010, 10.5 and 10.16",
+        }),
+    }
+}
+
+/// The multiProcessElementsType header (ICC.1:2010, 10.14): channels, and
+/// a position table whose elements lie inside the tag, chained channel to
+/// channel. The elements' own contents are lcms2's to decode, except the
+/// size of a CLUT element, which is checked like any other CLUT.
+fn multi_process(tag: Tag, header: &Header, flow: Flow) -> Result<(), TagError> {
+    // ICC.1:2010, 9.2.9–9.2.12 and 9.2.24–9.2.27 (BToDn, DToBn):
+    // multiProcessElementsType.
+    if tag.type_sig() != Some(Signature(*b"mpet")) {
+        return Err(TagError::WrongType {
+            tag: tag.sig,
+            found: tag.type_sig().unwrap_or(Signature(*b"    ")),
+            allowed: "multiProcessElements",
+            clause: "ICC.1:2010, 9.2.24",
+        });
+    }
+    tag.need("a multiProcessElements table", 16)?;
+    let d = tag.data;
+    let (inputs, outputs) = (usize::from(be_u16(d, 8)), usize::from(be_u16(d, 10)));
+    check_channels(tag, header, flow, (inputs, outputs))?;
+    let count = u64::from(be_u32(d, 12));
+    if count == 0 {
+        return Err(tag.structure("it has no processing elements (ICC.1:2010, 10.14)"));
+    }
+    let table = tag.part("the position table", 16, count * 8)?;
+    let mut channels = inputs;
+    for (i, pos) in table.chunks_exact(8).enumerate() {
+        let (offset, size) = (u64::from(be_u32(pos, 0)), u64::from(be_u32(pos, 4)));
+        let part = format!("element {}", i + 1);
+        let element = tag.part(part.clone(), offset, size)?;
+        if element.len() < 12 {
+            return Err(tag.structure(format!("{part} is {} bytes, too short for its header", element.len())));
+        }
+        let (e_in, e_out) = (usize::from(be_u16(element, 8)), usize::from(be_u16(element, 10)));
+        if e_in != channels {
+            return Err(tag.structure(format!("{part} takes {e_in} channels but receives {channels}")));
+        }
+        if &element[0..4] == b"clut" {
+            // 16 grid-point bytes after the header, then float32 values.
+            let sub = Tag {
+                sig: tag.sig,
+                data: element,
+            };
+            let head = sub.part(format!("the grid points of {part}"), 12, 16)?;
+            let points = &head[..e_in.min(16)];
+            if let Some(i) = points.iter().position(|&p| p < 2) {
+                return Err(TagError::GridPoints {
+                    tag: tag.sig,
+                    along: format!("input {}", i + 1),
+                    points: points[i],
+                    clause: "ICC.1:2010, 10.14",
+                });
+            }
+            let values = clut_values(tag, points, e_out)?;
+            sub.part(format!("the CLUT values of {part}"), 28, values * 4)?;
+        }
+        channels = e_out;
+    }
+    if channels != outputs {
+        return Err(tag.structure(format!(
+            "its last element gives {channels} channels, not the {outputs} the table declares"
+        )));
+    }
+    Ok(())
+}
+
+/// An XYZType tag (ICC.1:2010, 10.29) of one number, each component in
+/// `lo…XYZ_LIMIT`.
+fn xyz(tag: Tag, lo: f64) -> Result<(), TagError> {
+    if tag.type_sig() != Some(Signature(*b"XYZ ")) {
+        return Err(TagError::WrongType {
+            tag: tag.sig,
+            found: tag.type_sig().unwrap_or(Signature(*b"    ")),
+            allowed: "XYZType",
+            clause: "ICC.1:2010, 10.29",
+        });
+    }
+    tag.need("an XYZ number", 20)?;
+    for (i, c) in ["X", "Y", "Z"].iter().enumerate() {
+        let v = s15f16(tag.data, 8 + 4 * i);
+        let inside = if lo == 0.0 { v > 0.0 } else { v >= lo } && v <= XYZ_LIMIT;
+        if !inside {
+            return Err(TagError::Implausible {
+                tag: tag.sig,
+                what: c.to_string(),
+                value: v,
+                lo,
+                hi: XYZ_LIMIT,
+            });
+        }
+    }
+    Ok(())
+}
+
+/// The chromaticAdaptationTag (ICC.1:2010, 9.2.15): an s15Fixed16ArrayType
+/// (10.20) of nine numbers. An adaptation between real illuminants has
+/// coefficients near the identity's; each within ±XYZ_LIMIT.
+fn adaptation_matrix(tag: Tag) -> Result<(), TagError> {
+    if tag.type_sig() != Some(Signature(*b"sf32")) {
+        return Err(TagError::WrongType {
+            tag: tag.sig,
+            found: tag.type_sig().unwrap_or(Signature(*b"    ")),
+            allowed: "s15Fixed16ArrayType",
+            clause: "ICC.1:2010, 9.2.15",
+        });
+    }
+    tag.need("a 3 × 3 matrix", 8 + 36)?;
+    for i in 0..9 {
+        let v = s15f16(tag.data, 8 + 4 * i);
+        if v.abs() > XYZ_LIMIT {
+            return Err(TagError::Implausible {
+                tag: tag.sig,
+                what: format!("coefficient {} of row {}", i % 3 + 1, i / 3 + 1),
+                value: v,
+                lo: -XYZ_LIMIT,
+                hi: XYZ_LIMIT,
+            });
+        }
+    }
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A CMYK → Lab output profile holding one tag, `body`, as A2B0.
+    fn profile_with_a2b0(body: &[u8]) -> Vec<u8> {
+        let mut b = vec![0u8; 144];
+        b[12..16].copy_from_slice(b"prtr");
+        b[16..20].copy_from_slice(b"CMYK");
+        b[20..24].copy_from_slice(b"Lab ");
+        b[36..40].copy_from_slice(b"acsp");
+        b[128..132].copy_from_slice(&1u32.to_be_bytes());
+        b[132..136].copy_from_slice(b"A2B0");
+        b[136..140].copy_from_slice(&144u32.to_be_bytes());
+        b[140..144].copy_from_slice(&(body.len() as u32).to_be_bytes());
+        b.extend_from_slice(body);
+        let len = b.len() as u32;
+        b[0..4].copy_from_slice(&len.to_be_bytes());
+        b
+    }
+
+    /// A lut16Type body (ICC.1:2010, 10.8) with `n`-entry tables, zeros.
+    fn lut16(inputs: u8, outputs: u8, points: u8, n: u16) -> Vec<u8> {
+        let mut t = vec![0u8; 52];
+        t[0..4].copy_from_slice(b"mft2");
+        t[8] = inputs;
+        t[9] = outputs;
+        t[10] = points;
+        t[48..50].copy_from_slice(&n.to_be_bytes());
+        t[50..52].copy_from_slice(&n.to_be_bytes());
+        let clut = u64::from(points).pow(u32::from(inputs)) * u64::from(outputs);
+        let len = 2 * (u64::from(inputs) * u64::from(n) + clut + u64::from(outputs) * u64::from(n));
+        t.resize(52 + len as usize, 0);
+        t
+    }
+
+    fn check(body: &[u8]) -> Result<(), TagError> {
+        let b = profile_with_a2b0(body);
+        validate(&Header::parse(&b).unwrap(), &b)
+    }
+
+    #[test]
+    fn channels_follow_the_colour_space_signatures() {
+        // ICC.1:2010, table 19.
+        let n = |s: &[u8; 4]| channels_of(Signature(*s));
+        assert_eq!(n(b"GRAY"), Some(1));
+        assert_eq!(n(b"RGB "), Some(3));
+        assert_eq!(n(b"CMYK"), Some(4));
+        assert_eq!(n(b"2CLR"), Some(2));
+        assert_eq!(n(b"9CLR"), Some(9));
+        assert_eq!(n(b"ACLR"), Some(10));
+        assert_eq!(n(b"FCLR"), Some(15));
+        assert_eq!(n(b"GCLR"), None);
+        assert_eq!(n(b"\0\0\0\0"), None);
+    }
+
+    #[test]
+    fn lut16_that_fits_exactly_passes_and_one_byte_less_does_not() {
+        let t = lut16(4, 3, 2, 2);
+        assert_eq!(check(&t), Ok(()));
+        let short = &t[..t.len() - 1];
+        assert!(matches!(check(short), Err(TagError::OutOfTag { ref part, .. }) if part == "the output tables"));
+    }
+
+    #[test]
+    fn lut16_counts_are_checked() {
+        assert!(matches!(
+            check(&lut16(3, 3, 2, 2)),
+            Err(TagError::Channels {
+                found: 3,
+                expected: 4,
+                ..
+            })
+        ));
+        assert!(matches!(
+            check(&lut16(4, 4, 2, 2)),
+            Err(TagError::Channels {
+                found: 4,
+                expected: 3,
+                ..
+            })
+        ));
+        assert!(matches!(
+            check(&lut16(4, 3, 1, 2)),
+            Err(TagError::GridPoints { points: 1, .. })
+        ));
+        assert!(matches!(check(&lut16(4, 3, 2, 1)), Err(TagError::Structure { .. })));
+        // 255⁴ × 3 values is over the cap; the header alone is enough to say so.
+        let mut t = lut16(4, 3, 2, 2);
+        t[10] = 255;
+        assert!(matches!(check(&t), Err(TagError::ClutTooLarge { ref grid, .. }) if grid == "255^4"));
+    }
+
+    #[test]
+    fn clut_value_count_cannot_overflow() {
+        let tag = Tag {
+            sig: Signature(*b"A2B0"),
+            data: &[],
+        };
+        // 255^15 × 15 is far beyond u64; checked multiplication reports it.
+        assert!(matches!(
+            clut_values(tag, &[255; 15], 15),
+            Err(TagError::ClutTooLarge { .. })
+        ));
+        assert_eq!(clut_values(tag, &[17; 4], 3), Ok(17u64.pow(4) * 3));
+    }
+
+    #[test]
+    fn lut_ab_combinations_follow_the_clauses() {
+        // lutAToB with only B curves needs as many inputs as outputs
+        // (ICC.1:2010, 10.10): 4 → 3 without a CLUT cannot be.
+        let mut t = vec![0u8; 32 + 3 * 12];
+        t[0..4].copy_from_slice(b"mAB ");
+        t[8] = 4;
+        t[9] = 3;
+        t[12..16].copy_from_slice(&32u32.to_be_bytes());
+        for i in 0..3 {
+            t[32 + 12 * i..36 + 12 * i].copy_from_slice(b"curv");
+        }
+        assert!(matches!(check(&t), Err(TagError::Structure { .. })));
+        // A CLUT without A curves is not a permitted combination either.
+        t[24..28].copy_from_slice(&32u32.to_be_bytes());
+        assert!(matches!(check(&t), Err(TagError::Structure { .. })));
+    }
+
+    #[test]
+    fn colorants_outside_the_plausible_range_are_refused() {
+        let xyz = |x: i32| {
+            let mut t = vec![0u8; 20];
+            t[0..4].copy_from_slice(b"XYZ ");
+            for i in 0..3 {
+                t[8 + 4 * i..12 + 4 * i].copy_from_slice(&x.to_be_bytes());
+            }
+            t
+        };
+        fn tag(data: &[u8]) -> Tag<'_> {
+            Tag {
+                sig: Signature(*b"rXYZ"),
+                data,
+            }
+        }
+        // s15Fixed16: 0x10000 is 1.0 (ICC.1:2010, 4.6).
+        assert_eq!(super::xyz(tag(&xyz(0x10000)), -XYZ_LIMIT), Ok(()));
+        assert_eq!(super::xyz(tag(&xyz(-0x10000)), -XYZ_LIMIT), Ok(()));
+        assert!(super::xyz(tag(&xyz(6 << 16)), -XYZ_LIMIT).is_err());
+        // A white must be positive.
+        assert!(super::xyz(tag(&xyz(0)), 0.0).is_err());
+    }
+}
