@@ -3,8 +3,8 @@
 //! in bounded time and memory (a hang shows as a test that never ends).
 //! Every mutant starts from a real profile: the built-in press
 //! (`profiles/offset-coated.icc`, ICC v4 lutAToB/lutBToA tables), the same
-//! tables re-saved by lcms2 as ICC v2 (lut16), and the built-in sRGB screen
-//! (matrix/TRC).
+//! kind of tables on uniform grids re-saved by lcms2 as ICC v2 (lut16), and
+//! the built-in sRGB screen (matrix/TRC).
 
 mod common;
 use common::*;
@@ -23,11 +23,14 @@ fn srgb() -> Vec<u8> {
     builtin::bytes("srgb").unwrap().unwrap()
 }
 
-/// The built-in press's tables re-saved as an ICC v2 profile: lcms2 writes
-/// them as lut16Type ('mft2'), one copy for the perceptual intent that the
-/// other intents link to (same offset), as many v2 press profiles do.
+/// A press profile of uniform grids (33³ B2A, an earlier build of the
+/// built-in press, kept in `tests/data/`) re-saved as an ICC v2 profile:
+/// lcms2 writes its tables as lut16Type ('mft2'), one copy for the
+/// perceptual intent that the other intents link to (same offset), as many
+/// v2 press profiles do. The current built-in cannot be: its B2A grids differ
+/// per input (33 × 52 × 52), which lut16Type cannot hold.
 fn offset_coated_v2() -> Vec<u8> {
-    let bytes = offset_coated();
+    let bytes = std::fs::read(Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/data/press-uniform-grid.icc")).unwrap();
     let src = Profile::new_icc(&bytes).unwrap();
     let mut p = Profile::new_icc(&bytes).unwrap();
     use TagSignature::*;
@@ -177,7 +180,9 @@ fn tag_beyond_the_size_cap_is_refused() {
     assert_refused(&p, &["B2A1", "more than"]);
     // A size inside the cap but past the end of the file.
     let mut b = offset_coated();
-    b[e + 8..e + 12].copy_from_slice(&(1u32 << 20).to_be_bytes());
+    let offset = u32::from_be_bytes(b[e + 4..e + 8].try_into().unwrap()) as usize;
+    let past = (b.len() - offset + 1) as u32;
+    b[e + 8..e + 12].copy_from_slice(&past.to_be_bytes());
     let p = write(dir.path(), "tag-past-end.icc", &b);
     assert_refused(&p, &["B2A1", "outside"]);
 }
