@@ -498,7 +498,7 @@ fn bad_inputs_fail_cleanly_and_write_nothing() {
     // Output over the input.
     assert_error(
         &run(&["proof", &s(&good), "--out", &s(&good)]),
-        &["good.png", "overwrite"],
+        &["good.png", "never writes over an input"],
     );
     assert_eq!(std::fs::read(&good).unwrap(), full);
 

@@ -1,21 +1,35 @@
 //! The `proof` subcommand: arguments, the plan (every input probed, every
 //! profile resolved, every output path checked before work starts), the
-//! parallel proofs, and the writes, which happen only once every image has
-//! been proofed, through one output guard: every output or none.
+//! parallel proofs, and the writes through one output guard: each image's
+//! outputs are staged as soon as it is done, and put in place only once
+//! every image has been proofed: every output or none.
+//!
+//! # Memory
+//!
+//! Each image is refused from its header above `--max-pixels` (see
+//! [`crate::proof::raster`]). Images are proofed by one worker per thread of
+//! the pool, each image's pixels in parallel over the pool; a worker starts
+//! an image only while the estimated working memory of the images in
+//! progress, this one included, stays within [`WORKING_BUDGET`] (an image
+//! larger than that runs alone). Proofs and maps are staged to their
+//! temporary files as soon as they are encoded, so nothing of a finished
+//! image stays in memory.
 
 use std::collections::HashMap;
 use std::io::{IsTerminal, Write};
 use std::path::{Path, PathBuf};
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+use std::sync::{Condvar, Mutex};
 
 use clap::Args;
-use rayon::prelude::*;
 
 use super::commands::{Error, Outcome};
 use super::{IntentArg, ProfileArgs};
 use crate::icc::transform::PressMapping;
-use crate::icc::{Direction, IccProfile, Origin};
+use crate::icc::{Direction, IccError, IccProfile, Origin};
+use crate::io::Outputs;
 use crate::proof::heat::HeatScale;
-use crate::proof::raster::{self, FileKind, Raster, RasterInfo, RgbImage};
+use crate::proof::raster::{self, DecodeLimits, FileKind, Raster, RasterError, RasterInfo, RgbImage};
 use crate::proof::report::{self, ImageReport, ProfileSource, ProofReport};
 use crate::proof::{check_embedded, Method, ProofEngine, ROUND_TRIP_THRESHOLD};
 use crate::swatch::check::DEFAULT_TOLERANCE;
@@ -58,6 +72,98 @@ pub struct ProofArgs {
     /// No progress bar.
     #[arg(long)]
     pub quiet: bool,
+    /// Largest image to read, in megapixels (width × height / 10⁶), checked from the file's header
+    /// before any pixel is decoded. A 100-MP 8-bit RGB image takes about 0.4 GB to proof, 0.7 GB with
+    /// --delta-map (16-bit and alpha take more); raise it for larger images on a machine with the memory.
+    #[arg(long, value_name = "MEGAPIXELS", default_value_t = DecodeLimits::DEFAULT_MEGAPIXELS)]
+    pub max_pixels: f64,
+}
+
+/// Estimated working memory of the images proofed at once: 1 GiB. An image
+/// whose estimate alone is larger runs by itself.
+pub const WORKING_BUDGET: u64 = 1 << 30;
+
+/// A raster error, with the way out when the image is over the pixel limit.
+fn with_limit_hint(e: RasterError) -> Error {
+    match e {
+        RasterError::TooManyPixels { .. } => format!("{e}; raise it with --max-pixels MEGAPIXELS").into(),
+        e => e.into(),
+    }
+}
+
+/// Estimated peak bytes of proofing one image, stage by stage: decoding
+/// (with what the decoder holds besides: the image crate's TIFF buffer, the
+/// JPEG file and, for progressive JPEG, 2 bytes per sample of DCT
+/// coefficients), splitting alpha off, grey → RGB, the proof (written over
+/// the samples unless proof pixels are larger) and the map, encoding the map
+/// and then the proof (alpha joined back), each encoded file counted at its
+/// raw size. [`proof_one`] drops each buffer once its part is done.
+pub fn working_bytes(info: &RasterInfo, file_len: u64, map: bool) -> u64 {
+    let px = info.pixels() as u64;
+    let bps = info.bytes_per_sample() as u64;
+    let ch = info.channels as u64;
+    let a = u64::from(info.has_alpha);
+    let decoded = (ch + a) * bps;
+    let (extra, file) = match info.kind {
+        FileKind::Tiff if info.channels != 4 => (decoded, 0),
+        FileKind::Jpeg => (2 * ch, file_len),
+        _ => (0, 0),
+    };
+    let m = if map { 3 } else { 0 };
+    let decode = decoded + extra + a * bps;
+    let grey = info.channels == 1 && info.icc.is_none();
+    let expand = if grey { ch * bps + 3 * bps + a * bps } else { 0 };
+    let samples = if grey { 3 * bps } else { ch * bps };
+    let apart = if 3 * bps > samples { 3 * bps } else { 0 };
+    let run = samples + apart + a * bps + m;
+    let proof = 3 * bps;
+    let map_encode = proof + a * bps + 2 * m;
+    let proof_encode = proof + a * bps + a * 4 * bps + (3 + a) * bps;
+    let per_px = decode.max(expand).max(run).max(map_encode).max(proof_encode);
+    px.saturating_mul(per_px).saturating_add(file)
+}
+
+/// Working memory handed out to the images in progress.
+struct Budget {
+    limit: u64,
+    /// Bytes and images in progress.
+    used: Mutex<(u64, usize)>,
+    freed: Condvar,
+}
+
+struct Held<'a> {
+    budget: &'a Budget,
+    bytes: u64,
+}
+
+impl Budget {
+    fn new(limit: u64) -> Self {
+        Self {
+            limit,
+            used: Mutex::new((0, 0)),
+            freed: Condvar::new(),
+        }
+    }
+
+    /// Waits until `bytes` fit beside the images in progress, or none is.
+    fn take(&self, bytes: u64) -> Held<'_> {
+        let mut g = self.used.lock().unwrap_or_else(|e| e.into_inner());
+        while g.1 > 0 && g.0.saturating_add(bytes) > self.limit {
+            g = self.freed.wait(g).unwrap_or_else(|e| e.into_inner());
+        }
+        g.0 += bytes;
+        g.1 += 1;
+        Held { budget: self, bytes }
+    }
+}
+
+impl Drop for Held<'_> {
+    fn drop(&mut self) {
+        let mut g = self.budget.used.lock().unwrap_or_else(|e| e.into_inner());
+        g.0 -= self.bytes;
+        g.1 -= 1;
+        self.budget.freed.notify_all();
+    }
 }
 
 const IMAGE_EXTENSIONS: [&str; 5] = ["png", "jpg", "jpeg", "tif", "tiff"];
@@ -129,22 +235,24 @@ struct Job {
     out_kind: FileKind,
     map: Option<(PathBuf, PathBuf)>,
     engine: usize,
+    /// Estimated working memory ([`working_bytes`]).
+    cost: u64,
     /// Grey pixels without a profile of their own: shown as R = G = B in --screen.
     expand_grey: bool,
     profile: String,
     source: ProfileSource,
 }
 
-struct Finished {
-    proof: Vec<u8>,
-    map: Option<(Vec<u8>, String)>,
-    report: ImageReport,
-}
-
 pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if !(a.tolerance.is_finite() && a.tolerance >= 0.0) {
         return Err(format!("--tolerance must be a ΔE00 of 0 or more, not {}", a.tolerance).into());
     }
+    let limits = DecodeLimits::from_megapixels(a.max_pixels).ok_or_else(|| {
+        format!(
+            "--max-pixels must be a number of megapixels above 0, not {}",
+            a.max_pixels
+        )
+    })?;
     // The plan.
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
@@ -179,7 +287,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     let mut engine_of: HashMap<(Option<Vec<u8>>, usize, u8), usize> = HashMap::new();
     let mut jobs = Vec::with_capacity(inputs.len());
     for input in &inputs {
-        let info = raster::probe(input)?;
+        let info = raster::probe_within(input, &limits).map_err(with_limit_hint)?;
         let (out_path, out_kind) = match &out_target {
             Target::Dir(d) => {
                 let ext = input.extension().and_then(|e| e.to_str()).unwrap_or("png").to_string();
@@ -230,7 +338,17 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             None => {
                 let fallback = if info.channels == 4 { &press } else { &screen };
                 let src = embedded.as_ref().unwrap_or(fallback);
-                engines.push(ProofEngine::new(src, channels, info.bits, &screen, &press, mapping)?);
+                let built =
+                    ProofEngine::new(src, channels, info.bits, &screen, &press, mapping).map_err(|e| {
+                        match (&embedded, &e) {
+                            (Some(p), IccError::Transform { name, .. }) if *name == p.name => Error::from(format!(
+                                "'{}': its embedded ICC profile cannot be used: {e}",
+                                input.display()
+                            )),
+                            _ => Error::from(e),
+                        }
+                    })?;
+                engines.push(built);
                 engine_of.insert(key, engines.len() - 1);
                 engines.len() - 1
             }
@@ -240,8 +358,11 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             None if info.channels == 4 => (press.name.clone(), ProfileSource::Assumed),
             None => (screen.name.clone(), ProfileSource::Assumed),
         };
+        let file_len = std::fs::metadata(input).map(|m| m.len()).unwrap_or(0);
+        let cost = working_bytes(&info, file_len, map.is_some());
         jobs.push(Job {
             input: input.clone(),
+            cost,
             info,
             out: out_path,
             out_kind,
@@ -258,39 +379,26 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         None
     };
 
-    // The work, in parallel; nothing is written yet.
+    // The work, in parallel; outputs are staged, none is put in place yet.
     let bar = if a.quiet || a.json || !std::io::stderr().is_terminal() {
         indicatif::ProgressBar::hidden()
     } else {
         indicatif::ProgressBar::new(jobs.len() as u64)
     };
     let screen_icc = screen.bytes.clone();
-    let tolerance = a.tolerance;
-    let results: Vec<Result<Finished, Error>> = jobs
-        .par_iter()
-        .map(|job| {
-            let r = proof_one(job, &engines[job.engine], heat.as_ref(), &screen_icc, tolerance);
-            bar.inc(1);
-            r
-        })
-        .collect();
+    let ctx = Work {
+        engines: &engines,
+        heat: heat.as_ref(),
+        screen_icc: &screen_icc,
+        tolerance: a.tolerance,
+        limits,
+        outputs: Mutex::new(outputs),
+    };
+    let images = proof_all(&jobs, &ctx, &bar);
     bar.finish_and_clear();
-    let mut finished = Vec::with_capacity(results.len());
-    for r in results {
-        finished.push(r?);
-    }
+    let images = images?;
+    ctx.outputs.into_inner().unwrap_or_else(|e| e.into_inner()).commit()?;
 
-    // The writes: all of them, or none.
-    for (job, f) in jobs.iter().zip(&finished) {
-        outputs.stage_bytes(&job.out, &f.proof)?;
-        if let (Some((m, l)), Some((png, svg))) = (&job.map, &f.map) {
-            outputs.stage_bytes(m, png)?;
-            outputs.stage_bytes(l, svg.as_bytes())?;
-        }
-    }
-    outputs.commit()?;
-
-    let images: Vec<ImageReport> = finished.into_iter().map(|f| f.report).collect();
     let beyond = images.iter().any(|i| !i.within_tolerance);
     let mut notes = Vec::new();
     notes.extend(press.intent_note(mapping.intent, Direction::FromPcs));
@@ -346,15 +454,79 @@ fn expand_grey(r: &mut Raster) {
     r.info.channels = 3;
 }
 
-fn proof_one(
-    job: &Job,
-    engine: &ProofEngine,
-    heat: Option<&HeatScale>,
-    screen_icc: &[u8],
+/// What every image's proof shares.
+struct Work<'a> {
+    engines: &'a [ProofEngine],
+    heat: Option<&'a HeatScale>,
+    screen_icc: &'a [u8],
     tolerance: f64,
-) -> Result<Finished, Error> {
-    let mut r = raster::read(&job.input)?;
-    if r.info.width != job.info.width || r.info.height != job.info.height {
+    limits: DecodeLimits,
+    outputs: Mutex<Outputs>,
+}
+
+impl Work<'_> {
+    fn stage(&self, path: &Path, bytes: &[u8]) -> Result<(), Error> {
+        let mut o = self.outputs.lock().unwrap_or_else(|e| e.into_inner());
+        o.stage_bytes(path, bytes)?;
+        Ok(())
+    }
+}
+
+/// What became of a job: `None` when it was not started because another had
+/// failed.
+type JobResult = Option<Result<ImageReport, Error>>;
+
+/// Proofs every job, in parallel within [`WORKING_BUDGET`]; the reports in
+/// job order, or the error of the first job that failed (no new image starts
+/// after a failure).
+fn proof_all(jobs: &[Job], ctx: &Work<'_>, bar: &indicatif::ProgressBar) -> Result<Vec<ImageReport>, Error> {
+    let budget = Budget::new(WORKING_BUDGET);
+    let next = AtomicUsize::new(0);
+    let failed = AtomicBool::new(false);
+    let done: Mutex<Vec<(usize, JobResult)>> = Mutex::new(Vec::with_capacity(jobs.len()));
+    let workers = rayon::current_num_threads().clamp(1, jobs.len().max(1));
+    std::thread::scope(|scope| {
+        for _ in 0..workers {
+            scope.spawn(|| loop {
+                if failed.load(Ordering::Relaxed) {
+                    break;
+                }
+                let i = next.fetch_add(1, Ordering::Relaxed);
+                let Some(job) = jobs.get(i) else { break };
+                let held = budget.take(job.cost);
+                let r = if failed.load(Ordering::Relaxed) {
+                    None
+                } else {
+                    Some(proof_one(job, ctx))
+                };
+                drop(held);
+                if matches!(r, Some(Err(_))) {
+                    failed.store(true, Ordering::Relaxed);
+                }
+                bar.inc(1);
+                done.lock().unwrap_or_else(|e| e.into_inner()).push((i, r));
+            });
+        }
+    });
+    let mut done = done.into_inner().unwrap_or_else(|e| e.into_inner());
+    done.sort_by_key(|(i, _)| *i);
+    let mut reports = Vec::with_capacity(done.len());
+    for (_, r) in done {
+        match r {
+            Some(Ok(rep)) => reports.push(rep),
+            Some(Err(e)) => return Err(e),
+            None => {}
+        }
+    }
+    Ok(reports)
+}
+
+/// Reads, proofs, encodes and stages one image; its buffers are dropped as
+/// soon as their part is done.
+fn proof_one(job: &Job, ctx: &Work<'_>) -> Result<ImageReport, Error> {
+    let engine = &ctx.engines[job.engine];
+    let mut r = raster::read_within(&job.input, &ctx.limits).map_err(with_limit_hint)?;
+    if r.info != job.info {
         return Err(format!(
             "'{}': the file changed while inkfit was reading it",
             job.input.display()
@@ -364,62 +536,62 @@ fn proof_one(
     if job.expand_grey {
         expand_grey(&mut r);
     }
-    let o = engine.run(&r, heat, Method::Table);
-    let (w, h) = (r.info.width, r.info.height);
+    let (w, h, bits) = (r.info.width, r.info.height, r.info.bits);
+    let alpha = r.alpha.take();
+    let o = engine.run_owned(std::mem::take(&mut r.color), ctx.heat, Method::Table);
+    let stats = o.tally.summary();
+    if let (Some((m, l)), Some(heat), Some(pixels)) = (&job.map, ctx.heat, o.map) {
+        let png = raster::encode(
+            m,
+            FileKind::Png,
+            &RgbImage {
+                width: w,
+                height: h,
+                bits: 8,
+                rgb: &pixels,
+                alpha: None,
+            },
+            &heat.srgb_icc,
+        )?;
+        drop(pixels);
+        ctx.stage(m, &png)?;
+        drop(png);
+        let title = format!("ΔE00 map of {}", file_name(&job.input));
+        ctx.stage(l, heat.legend_svg(&title).as_bytes())?;
+    }
     let proof = raster::encode(
         &job.out,
         job.out_kind,
         &RgbImage {
             width: w,
             height: h,
-            bits: r.info.bits,
+            bits,
             rgb: &o.proof,
-            alpha: r.alpha.as_deref(),
+            alpha: alpha.as_deref(),
         },
-        screen_icc,
+        ctx.screen_icc,
     )?;
-    let map = match (&job.map, heat, &o.map) {
-        (Some((m, _)), Some(heat), Some(pixels)) => {
-            let png = raster::encode(
-                m,
-                FileKind::Png,
-                &RgbImage {
-                    width: w,
-                    height: h,
-                    bits: 8,
-                    rgb: pixels,
-                    alpha: None,
-                },
-                &heat.srgb_icc,
-            )?;
-            let title = format!("ΔE00 map of {}", file_name(&job.input));
-            Some((png, heat.legend_svg(&title)))
-        }
-        _ => None,
-    };
-    let stats = o.tally.summary();
-    Ok(Finished {
-        proof,
-        map,
-        report: ImageReport {
-            input: job.input.display().to_string(),
-            output: job.out.display().to_string(),
-            delta_map: job.map.as_ref().map(|(m, _)| m.display().to_string()),
-            legend: job.map.as_ref().map(|(_, l)| l.display().to_string()),
-            width: w,
-            height: h,
-            bits: job.info.bits,
-            channels: match job.info.channels {
-                1 => "grey",
-                4 => "cmyk",
-                _ => "rgb",
-            },
-            alpha: job.info.has_alpha,
-            profile: job.profile.clone(),
-            profile_source: job.source,
-            within_tolerance: stats.p95 <= tolerance,
-            stats,
+    drop(o.proof);
+    drop(alpha);
+    ctx.stage(&job.out, &proof)?;
+    Ok(ImageReport {
+        input: job.input.display().to_string(),
+        output: job.out.display().to_string(),
+        delta_map: job.map.as_ref().map(|(m, _)| m.display().to_string()),
+        legend: job.map.as_ref().map(|(_, l)| l.display().to_string()),
+        width: w,
+        height: h,
+        bits: job.info.bits,
+        channels: match job.info.channels {
+            1 => "grey",
+            4 => "cmyk",
+            _ => "rgb",
         },
+        alpha: job.info.has_alpha,
+        profile: job.profile.clone(),
+        profile_source: job.source,
+        within_tolerance: stats.p95 <= ctx.tolerance,
+        stats,
     })
 }
 
@@ -427,4 +599,61 @@ fn file_name(p: &Path) -> String {
     p.file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_default()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use std::sync::mpsc;
+    use std::time::Duration;
+
+    #[test]
+    fn budget_holds_back_what_does_not_fit_and_lets_a_large_image_run_alone() {
+        let b = Budget::new(10);
+        let first = b.take(6);
+        let (tx, rx) = mpsc::channel();
+        std::thread::scope(|s| {
+            s.spawn(|| {
+                let _second = b.take(6);
+                tx.send(()).unwrap();
+            });
+            // 6 + 6 > 10: the second waits while the first is held.
+            assert!(rx.recv_timeout(Duration::from_millis(200)).is_err());
+            drop(first);
+            rx.recv_timeout(Duration::from_secs(10))
+                .expect("starts once the first is done");
+        });
+        // Larger than the whole budget, with nothing else in progress: runs.
+        let big = b.take(25);
+        assert_eq!(*b.used.lock().unwrap(), (25, 1));
+        drop(big);
+        assert_eq!(*b.used.lock().unwrap(), (0, 0));
+        // Small ones share it.
+        let (x, y) = (b.take(4), b.take(5));
+        assert_eq!(*b.used.lock().unwrap(), (9, 2));
+        drop((x, y));
+    }
+
+    #[test]
+    fn working_estimate_counts_the_layouts_that_cost_more() {
+        let info = |channels, bits, has_alpha, kind| RasterInfo {
+            kind,
+            width: 1000,
+            height: 1000,
+            channels,
+            bits,
+            has_alpha,
+            icc: None,
+        };
+        let rgb8 = working_bytes(&info(3, 8, false, FileKind::Png), 0, false);
+        // 8-bit RGB: the proof over the samples (3) plus its encoded file (3).
+        assert_eq!(rgb8, 6_000_000);
+        // A map adds its pixels, and its file while the proof is still held.
+        assert_eq!(working_bytes(&info(3, 8, false, FileKind::Png), 0, true), 9_000_000);
+        // 16 bits double it; alpha and the image crate's TIFF buffer add more.
+        assert_eq!(working_bytes(&info(3, 16, false, FileKind::Png), 0, false), 12_000_000);
+        assert!(working_bytes(&info(3, 8, true, FileKind::Png), 0, false) > rgb8);
+        // A JPEG's file is held whole while it decodes.
+        assert!(working_bytes(&info(3, 8, false, FileKind::Jpeg), 50_000_000, false) > 50_000_000);
+    }
 }

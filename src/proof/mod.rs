@@ -53,7 +53,7 @@ use rayon::prelude::*;
 
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
-use crate::icc::header::{CLASS_OUTPUT, SPACE_CMYK, SPACE_GRAY, SPACE_RGB};
+use crate::icc::header::{CLASS_OUTPUT, SPACE_CMYK, SPACE_GRAY, SPACE_LAB, SPACE_RGB, SPACE_XYZ};
 use crate::icc::transform::{lab_d50_profile, PressMapping};
 use crate::icc::{IccError, IccProfile, RenderingIntent};
 pub use crate::swatch::check::ROUND_TRIP_THRESHOLD;
@@ -91,12 +91,18 @@ fn device_format(channels: usize, bits: u8) -> PixelFormat {
     }
 }
 
-/// Checks that an image's own profile can describe its pixels: an RGB
-/// profile with a table or matrix to the connection space for RGB pixels, a
-/// grey one for grey pixels, a CMYK output profile with a table to the
-/// connection space for CMYK pixels.
+/// Checks that an image's own profile can describe its pixels: a connection
+/// space of CIEXYZ or CIELAB (ICC.1:2010, 7.2.7), and an RGB profile with a
+/// table or matrix to it for RGB pixels, a grey one for grey pixels, a CMYK
+/// output profile with a table to it for CMYK pixels.
 pub fn check_embedded(profile: &IccProfile, channels: usize) -> Result<(), String> {
     let h = &profile.header;
+    if h.pcs != SPACE_XYZ && h.pcs != SPACE_LAB {
+        return Err(format!(
+            "the embedded profile's connection space is '{}', neither XYZ nor Lab",
+            h.pcs
+        ));
+    }
     let has = |s: &[u8; 4]| h.tag(s).is_some();
     let tables = has(b"A2B0") || has(b"A2B1") || has(b"A2B2");
     let (ok, layout, what) = match channels {
@@ -123,6 +129,33 @@ pub fn check_embedded(profile: &IccProfile, channels: usize) -> Result<(), Strin
             "the embedded profile is {}; {layout} image needs {what}",
             profile.kind_phrase()
         ))
+    }
+}
+
+/// The profile to name when a transform from `source` (pixels in `format`)
+/// to `dest` cannot be built: `source` when it cannot reach CIELAB by itself
+/// with `intent`, else `dest`. A broken image profile is then blamed on the
+/// image, not on the press or screen it was being joined to.
+fn at_fault<'p>(
+    source: &'p IccProfile,
+    format: PixelFormat,
+    dest: &'p IccProfile,
+    intent: RenderingIntent,
+) -> &'p IccProfile {
+    let lab = lab_d50_profile();
+    let alone: Result<SharedTransform, _> = Transform::new_flags_context(
+        GlobalContext::new(),
+        &source.lcms,
+        format,
+        &lab,
+        PixelFormat::Lab_DBL,
+        intent.to_lcms(),
+        no_cache(false),
+    );
+    if alone.is_err() {
+        source
+    } else {
+        dest
     }
 }
 
@@ -190,7 +223,7 @@ impl ExactModel {
                 to_lab: t(input, PixelFormat::CMYK_DBL, &lab, PixelFormat::Lab_DBL)
                     .map_err(|_| err(input, "press → CIELAB"))?,
                 to_screen: t(input, PixelFormat::CMYK_DBL, &screen.lcms, PixelFormat::RGB_DBL)
-                    .map_err(|_| err(screen, "press → screen"))?,
+                    .map_err(|_| err(at_fault(input, PixelFormat::CMYK_DBL, screen, shown), "press → screen"))?,
                 screen_to_lab: t(screen, PixelFormat::RGB_DBL, &lab, PixelFormat::Lab_DBL)
                     .map_err(|_| err(screen, "screen → CIELAB"))?,
             }),
@@ -243,7 +276,13 @@ impl ExactModel {
                     mapping.intent.to_lcms(),
                     no_cache(mapping.bpc),
                 )
-                .map_err(|_| err(press, "image → press", mapping.intent))?,
+                .map_err(|_| {
+                    err(
+                        at_fault(input, in_fmt, press, mapping.intent),
+                        "image → press",
+                        mapping.intent,
+                    )
+                })?,
                 printed: Transform::new_flags_context(
                     ctx(),
                     &press.lcms,
@@ -526,7 +565,7 @@ impl ProofEngine {
                 no_cache(false),
             )
             .map_err(|_| IccError::Transform {
-                name: input.name.clone(),
+                name: at_fault(input, device_format(4, bits), screen, shown).name.clone(),
                 what: "press → screen",
                 intent: shown,
             })?;
@@ -552,7 +591,9 @@ impl ProofEngine {
             no_cache(mapping.bpc) | Flags::SOFT_PROOFING,
         )
         .map_err(|_| IccError::Transform {
-            name: press.name.clone(),
+            name: at_fault(input, device_format(channels, bits), press, mapping.intent)
+                .name
+                .clone(),
             what: "soft proof",
             intent: mapping.intent,
         })?;
@@ -670,42 +711,113 @@ impl ProofEngine {
     /// Proofs a decoded image: the proof, the ΔE00 map when `heat` is given,
     /// and the statistics. `method` chooses how ΔE00 is obtained.
     pub fn run(&self, raster: &Raster, heat: Option<&HeatScale>, method: Method) -> ProofOutput {
-        let color = &raster.color;
+        self.run_samples(&raster.color, heat, method)
+    }
+
+    fn run_samples(&self, color: &[u8], heat: Option<&HeatScale>, method: Method) -> ProofOutput {
         let n = color.len() / self.in_px();
         let mut proof = vec![0u8; n * self.out_px()];
         let mut map = heat.map(|_| vec![0u8; n * 3]);
         let src: Vec<&[u8]> = color.chunks(CHUNK * self.in_px()).collect();
         let dst: Vec<&mut [u8]> = proof.chunks_mut(CHUNK * self.out_px()).collect();
-        let maps: Vec<Option<&mut [u8]>> = match map.as_mut() {
-            Some(m) => m.chunks_mut(CHUNK * 3).map(Some).collect(),
-            None => (0..src.len()).map(|_| None).collect(),
-        };
+        let maps = map_chunks(map.as_deref_mut(), src.len());
         let tally = src
             .into_par_iter()
             .zip(dst)
             .zip(maps)
             .fold(Tally::new, |mut t, ((s, d), m)| {
                 self.proof.transform_pixels(s, d);
-                match method {
-                    _ if self.channels == 4 => {
-                        let v = self.press_deltas(s);
-                        accumulate(&v, m, heat, &mut t);
-                    }
-                    Method::Table => match (self.channels, self.bits) {
-                        (1, 8) => self.fused::<1, 1>(s, m, heat, &mut t),
-                        (1, _) => self.fused::<1, 2>(s, m, heat, &mut t),
-                        (_, 8) => self.fused::<3, 1>(s, m, heat, &mut t),
-                        _ => self.fused::<3, 2>(s, m, heat, &mut t),
-                    },
-                    Method::Exact => {
-                        let v = self.chunk_deltas(s, Method::Exact);
-                        accumulate(&v, m, heat, &mut t);
-                    }
-                }
+                self.measure(s, m, heat, method, &mut t);
                 t
             })
             .reduce(Tally::new, Tally::merge);
         ProofOutput { proof, map, tally }
+    }
+
+    /// [`ProofEngine::run`] on colour samples it takes over: when a proof
+    /// pixel is no larger than an image pixel (RGB, CMYK) the proof is
+    /// written over the samples, so the image is held once, not twice. The
+    /// results are those of `run`.
+    pub fn run_owned(&self, mut color: Vec<u8>, heat: Option<&HeatScale>, method: Method) -> ProofOutput {
+        let (ip, op) = (self.in_px(), self.out_px());
+        if op > ip {
+            return self.run_samples(&color, heat, method);
+        }
+        let n = color.len() / ip;
+        let mut map = heat.map(|_| vec![0u8; n * 3]);
+        let tally = if op == ip {
+            let chunks = n.div_ceil(CHUNK);
+            let maps = map_chunks(map.as_deref_mut(), chunks);
+            color
+                .par_chunks_mut(CHUNK * ip)
+                .zip(maps)
+                .fold(Tally::new, |mut t, (s, m)| {
+                    self.measure(s, m, heat, method, &mut t);
+                    self.proof.transform_in_place(s);
+                    t
+                })
+                .reduce(Tally::new, Tally::merge)
+        } else {
+            // Smaller proof pixels: a wave of chunks is proofed in parallel
+            // into small buffers, which are then copied down to where the
+            // proof pixels go. Pixel i lands at i·op < i·ip, so a wave only
+            // overwrites samples already read (its own or earlier ones).
+            let wave = CHUNK * 2 * rayon::current_num_threads().max(1);
+            let mut tally = Tally::new();
+            let mut start = 0;
+            while start < n {
+                let end = (start + wave).min(n);
+                let src = &color[start * ip..end * ip];
+                let chunks = (end - start).div_ceil(CHUNK);
+                let maps = map_chunks(map.as_mut().map(|m| &mut m[start * 3..end * 3]), chunks);
+                let parts: Vec<(Vec<u8>, Tally)> = src
+                    .par_chunks(CHUNK * ip)
+                    .zip(maps)
+                    .map(|(s, m)| {
+                        let mut d = vec![0u8; s.len() / ip * op];
+                        let mut t = Tally::new();
+                        self.proof.transform_pixels(s, &mut d);
+                        self.measure(s, m, heat, method, &mut t);
+                        (d, t)
+                    })
+                    .collect();
+                let mut at = start * op;
+                for (d, t) in parts {
+                    color[at..at + d.len()].copy_from_slice(&d);
+                    at += d.len();
+                    tally = tally.merge(t);
+                }
+                start = end;
+            }
+            tally
+        };
+        color.truncate(n * op);
+        color.shrink_to_fit();
+        ProofOutput {
+            proof: color,
+            map,
+            tally,
+        }
+    }
+
+    /// ΔE00 of the pixels of chunk `s` into the tally and the map chunk `m`.
+    fn measure(&self, s: &[u8], m: Option<&mut [u8]>, heat: Option<&HeatScale>, method: Method, t: &mut Tally) {
+        match method {
+            _ if self.channels == 4 => {
+                let v = self.press_deltas(s);
+                accumulate(&v, m, heat, t);
+            }
+            Method::Table => match (self.channels, self.bits) {
+                (1, 8) => self.fused::<1, 1>(s, m, heat, t),
+                (1, _) => self.fused::<1, 2>(s, m, heat, t),
+                (_, 8) => self.fused::<3, 1>(s, m, heat, t),
+                _ => self.fused::<3, 2>(s, m, heat, t),
+            },
+            Method::Exact => {
+                let v = self.chunk_deltas(s, Method::Exact);
+                accumulate(&v, m, heat, t);
+            }
+        }
     }
 
     /// Table lookup, map colour and tally in one pass; a pixel equal to the
@@ -759,6 +871,15 @@ impl ProofEngine {
             }
         }
         t.pixels += (src.len() / (CH * BPS)) as u64;
+    }
+}
+
+/// The map, when there is one, cut into the chunks of `CHUNK` pixels; else
+/// `count` times `None`.
+fn map_chunks(map: Option<&mut [u8]>, count: usize) -> Vec<Option<&mut [u8]>> {
+    match map {
+        Some(m) => m.chunks_mut(CHUNK * 3).map(Some).collect(),
+        None => (0..count).map(|_| None).collect(),
     }
 }
 

@@ -10,15 +10,115 @@
 //! Samples are kept as bytes exactly as lcms2 reads them: 8-bit values, or
 //! 16-bit values in native byte order (lcms2's `TYPE_*_16`). Alpha is split
 //! off into its own plane so the colour transforms never see it.
+//!
+//! # Bounds
+//!
+//! A file's header says how many pixels it holds, and decoders allocate what
+//! it says. Every read checks the declared width × height against
+//! [`DecodeLimits::max_pixels`] before any pixel buffer exists, then hands
+//! each decoder limits of its own so that a header that lies, or compressed
+//! data that inflates past the declared size, fails instead of allocating:
+//! - PNG: width and height at most the pixel limit, and at most
+//!   [`METADATA_ALLOC`] for everything the decoder keeps besides the output
+//!   (compressed profile and text chunks, line buffers);
+//! - JPEG: the frame header (SOFn) is read from the file before the decoder
+//!   loads it, since the decoder reads the whole file into memory: a file
+//!   larger than [`JPEG_BYTES_PER_PIXEL`] per declared pixel plus
+//!   [`METADATA_ALLOC`] is refused; the decoder gets the width and height
+//!   limits;
+//! - TIFF: the decoding buffer is the declared image, compressed chunks at
+//!   most twice that; the embedded profile is read before these limits are
+//!   set, because they apply to tag values too and would hide the profile of
+//!   a small image. A JPEG-compressed TIFF has a JPEG frame header in every
+//!   strip or tile that its decoder obeys; each must fit its strip or tile,
+//!   and all of them together at most twice the pixel limit.
 
 use std::fs::File;
-use std::io::{BufReader, Cursor};
+use std::io::{BufReader, Cursor, Read, Seek, SeekFrom};
 use std::path::Path;
 
 use image::codecs::jpeg::{JpegDecoder, JpegEncoder};
 use image::codecs::png::{PngDecoder, PngEncoder};
 use image::codecs::tiff::{TiffDecoder, TiffEncoder};
 use image::{ColorType, ExtendedColorType, ImageDecoder, ImageEncoder};
+
+/// Bytes a decoder may hold besides the pixels of the image (profiles, text,
+/// line buffers): 64 MiB, the PNG decoder's own default, far above the
+/// largest ICC profiles in use (a few MiB).
+pub const METADATA_ALLOC: u64 = 64 << 20;
+
+/// Largest JPEG file per declared pixel: 8 bytes, twice 16-bit RGBA and many
+/// times what an 8-bit JPEG at the highest quality takes (about 1–3 bytes per
+/// pixel, common practice).
+pub const JPEG_BYTES_PER_PIXEL: u64 = 8;
+
+/// How large an image inkfit agrees to decode.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct DecodeLimits {
+    /// Largest declared width × height.
+    pub max_pixels: u64,
+}
+
+impl DecodeLimits {
+    /// The default pixel limit in megapixels: 100.
+    pub const DEFAULT_MEGAPIXELS: f64 = 100.0;
+
+    /// A limit of `mp` megapixels (10⁶ pixels), rounded to whole pixels; `None`
+    /// unless `mp` is a finite number above 0.
+    pub fn from_megapixels(mp: f64) -> Option<Self> {
+        if mp.is_finite() && mp > 0.0 {
+            Some(Self {
+                max_pixels: ((mp * 1e6).round() as u64).max(1),
+            })
+        } else {
+            None
+        }
+    }
+
+    pub fn megapixels(&self) -> f64 {
+        self.max_pixels as f64 / 1e6
+    }
+
+    /// Refuses a declared size above the limit.
+    pub fn check(&self, path: &Path, width: u32, height: u32) -> Result<(), RasterError> {
+        let px = u64::from(width) * u64::from(height);
+        if px > self.max_pixels {
+            return Err(RasterError::TooManyPixels {
+                path: path_text(path),
+                width,
+                height,
+                declared: megapixel_text(px),
+                limit: megapixel_text(self.max_pixels),
+            });
+        }
+        Ok(())
+    }
+
+    /// The image crate's limits for a decoder: width and height each at most
+    /// the pixel limit, and `max_alloc`.
+    fn image_limits(&self, max_alloc: u64) -> image::Limits {
+        let side = u32::try_from(self.max_pixels).unwrap_or(u32::MAX);
+        let mut l = image::Limits::default();
+        l.max_image_width = Some(side);
+        l.max_image_height = Some(side);
+        l.max_alloc = Some(max_alloc);
+        l
+    }
+}
+
+impl Default for DecodeLimits {
+    fn default() -> Self {
+        Self {
+            max_pixels: (Self::DEFAULT_MEGAPIXELS * 1e6) as u64,
+        }
+    }
+}
+
+/// Megapixels for people: up to six decimals, trailing zeros dropped.
+pub fn megapixel_text(pixels: u64) -> String {
+    let t = format!("{:.6}", pixels as f64 / 1e6);
+    t.trim_end_matches('0').trim_end_matches('.').to_string()
+}
 
 /// Errors reading or writing an image; each names the file.
 #[derive(Debug, thiserror::Error)]
@@ -35,6 +135,18 @@ pub enum RasterError {
     Decode { path: String, detail: String },
     #[error("'{path}': {layout} images are not supported (grey or RGB, 8 or 16 bits per channel)")]
     Layout { path: String, layout: String },
+    #[error(
+        "'{path}': declares {width} × {height} pixels ({declared} megapixels), more than the limit of {limit} megapixels"
+    )]
+    TooManyPixels {
+        path: String,
+        width: u32,
+        height: u32,
+        declared: String,
+        limit: String,
+    },
+    #[error("'{path}': refused: {detail}")]
+    Bounds { path: String, detail: String },
     #[error("'{path}': cannot encode the image: {detail}")]
     Encode { path: String, detail: String },
 }
@@ -122,33 +234,115 @@ fn path_text(path: &Path) -> String {
     path.display().to_string()
 }
 
-fn open_decoder(path: &Path) -> Result<(FileKind, Box<dyn ImageDecoder>), RasterError> {
-    let p = path_text(path);
-    let read_err = |source| RasterError::Read {
-        path: p.clone(),
+fn read_err(path: &Path) -> impl Fn(std::io::Error) -> RasterError + '_ {
+    move |source| RasterError::Read {
+        path: path_text(path),
         source,
-    };
+    }
+}
+
+/// A decoder's error; the image crate's limit errors say which bound held.
+fn image_err(path: &Path) -> impl Fn(image::ImageError) -> RasterError + '_ {
+    move |e| match e {
+        image::ImageError::Limits(l) => RasterError::Bounds {
+            path: path_text(path),
+            detail: format!("decoding it needs more than its declared size allows ({l})"),
+        },
+        e => RasterError::Decode {
+            path: path_text(path),
+            detail: e.to_string(),
+        },
+    }
+}
+
+fn tiff_err(path: &Path) -> impl Fn(tiff::TiffError) -> RasterError + '_ {
+    move |e| match e {
+        tiff::TiffError::LimitsExceeded => RasterError::Bounds {
+            path: path_text(path),
+            detail: "decoding it needs more than its declared size allows (TIFF decoder limit)".to_string(),
+        },
+        e => RasterError::Decode {
+            path: path_text(path),
+            detail: e.to_string(),
+        },
+    }
+}
+
+/// A zero-filled buffer of `len` bytes, or an error naming the file when the
+/// memory is not there.
+fn zeroed(path: &Path, len: usize) -> Result<Vec<u8>, RasterError> {
+    let mut v = Vec::new();
+    v.try_reserve_exact(len).map_err(|_| RasterError::Bounds {
+        path: path_text(path),
+        detail: format!("cannot allocate {len} bytes for its pixels"),
+    })?;
+    v.resize(len, 0);
+    Ok(v)
+}
+
+fn sniff_file(path: &Path) -> Result<Option<FileKind>, RasterError> {
     let mut head = [0u8; 8];
-    {
-        use std::io::Read;
-        let mut f = File::open(path).map_err(read_err)?;
-        let n = f.read(&mut head).map_err(read_err)?;
-        if n < 4 {
-            return Err(RasterError::UnknownFormat { path: p });
+    let mut f = File::open(path).map_err(read_err(path))?;
+    let mut n = 0;
+    while n < head.len() {
+        match f.read(&mut head[n..]).map_err(read_err(path))? {
+            0 => break,
+            k => n += k,
         }
     }
-    let kind = FileKind::sniff(&head).ok_or_else(|| RasterError::UnknownFormat { path: p.clone() })?;
-    let reader = BufReader::new(File::open(path).map_err(read_err)?);
-    let dec_err = |e: image::ImageError| RasterError::Decode {
-        path: p.clone(),
-        detail: e.to_string(),
-    };
+    Ok(if n < 4 { None } else { FileKind::sniff(&head[..n]) })
+}
+
+fn open_decoder(path: &Path, limits: &DecodeLimits) -> Result<(FileKind, Box<dyn ImageDecoder>), RasterError> {
+    let kind = sniff_file(path)?.ok_or_else(|| RasterError::UnknownFormat { path: path_text(path) })?;
+    let mut reader = BufReader::new(File::open(path).map_err(read_err(path))?);
+    if kind == FileKind::Png {
+        // PNG spec 11.2.2: IHDR is the first chunk; its width and height
+        // follow the signature, chunk length and type (bytes 16..24).
+        let mut head = [0u8; 24];
+        if reader.read_exact(&mut head).is_ok() && &head[12..16] == b"IHDR" {
+            let be = |i: usize| u32::from_be_bytes([head[i], head[i + 1], head[i + 2], head[i + 3]]);
+            limits.check(path, be(16), be(20))?;
+        }
+        reader.seek(SeekFrom::Start(0)).map_err(read_err(path))?;
+    }
     let decoder: Box<dyn ImageDecoder> = match kind {
-        FileKind::Png => Box::new(PngDecoder::new(reader).map_err(dec_err)?),
-        FileKind::Jpeg => Box::new(JpegDecoder::new(reader).map_err(dec_err)?),
-        // Built directly and read before any limits are set: the limits meant
+        // The PNG decoder reads the header and checks the width and height
+        // limits before it reads any other chunk; `max_alloc` then bounds
+        // what it keeps of the chunks before the pixel data.
+        FileKind::Png => {
+            Box::new(PngDecoder::with_limits(reader, limits.image_limits(METADATA_ALLOC)).map_err(image_err(path))?)
+        }
+        FileKind::Jpeg => {
+            let len = reader.get_ref().metadata().map_err(read_err(path))?.len();
+            let (w, h) = jpeg_frame_size(&mut reader, len)
+                .map_err(read_err(path))?
+                .ok_or_else(|| RasterError::Decode {
+                    path: path_text(path),
+                    detail: "no JPEG frame header (SOFn) before the image data".to_string(),
+                })?;
+            limits.check(path, w, h)?;
+            let most = (u64::from(w) * u64::from(h))
+                .saturating_mul(JPEG_BYTES_PER_PIXEL)
+                .saturating_add(METADATA_ALLOC);
+            if len > most {
+                return Err(RasterError::Bounds {
+                    path: path_text(path),
+                    detail: format!(
+                        "{len} bytes is far more than a JPEG of {w} × {h} pixels needs (at most {most}), \
+                         and the JPEG decoder reads the whole file into memory"
+                    ),
+                });
+            }
+            reader.seek(SeekFrom::Start(0)).map_err(read_err(path))?;
+            let mut d = JpegDecoder::new(reader).map_err(image_err(path))?;
+            d.set_limits(limits.image_limits(METADATA_ALLOC))
+                .map_err(image_err(path))?;
+            Box::new(d)
+        }
+        // Built without limits and read before any are set: the limits meant
         // for pixel data otherwise hide the profile tag of small images.
-        FileKind::Tiff => Box::new(TiffDecoder::new(reader).map_err(dec_err)?),
+        FileKind::Tiff => Box::new(TiffDecoder::new(reader).map_err(image_err(path))?),
     };
     Ok((kind, decoder))
 }
@@ -183,19 +377,34 @@ fn layout_of(path: &Path, dec: &dyn ImageDecoder) -> Result<(usize, u8, bool), R
     })
 }
 
-fn info_of(path: &Path, kind: FileKind, dec: &mut dyn ImageDecoder) -> Result<RasterInfo, RasterError> {
-    let (channels, bits, has_alpha) = layout_of(path, dec)?;
+fn info_of(
+    path: &Path,
+    kind: FileKind,
+    dec: &mut dyn ImageDecoder,
+    limits: &DecodeLimits,
+) -> Result<RasterInfo, RasterError> {
     let (width, height) = dec.dimensions();
+    limits.check(path, width, height)?;
+    let (channels, bits, has_alpha) = layout_of(path, dec)?;
     if width == 0 || height == 0 {
         return Err(RasterError::Layout {
             path: path_text(path),
             layout: "empty (0-pixel)".to_string(),
         });
     }
-    let icc = dec.icc_profile().map_err(|e| RasterError::Decode {
-        path: path_text(path),
-        detail: e.to_string(),
-    })?;
+    let icc = dec.icc_profile().map_err(image_err(path))?.filter(|b| !b.is_empty());
+    // The PNG decoder drops a profile chunk it cannot read (damaged, or over
+    // its allowance once inflated) as if there were none; the pixels would
+    // then be taken to be in the screen profile.
+    if kind == FileKind::Png && icc.is_none() && png_has_chunk_before_data(path, b"iCCP")? {
+        return Err(RasterError::Bounds {
+            path: path_text(path),
+            detail: format!(
+                "its embedded ICC profile (iCCP chunk) cannot be read: damaged, or larger than {} MiB inflated",
+                METADATA_ALLOC >> 20
+            ),
+        });
+    }
     Ok(RasterInfo {
         kind,
         width,
@@ -203,37 +412,76 @@ fn info_of(path: &Path, kind: FileKind, dec: &mut dyn ImageDecoder) -> Result<Ra
         channels,
         bits,
         has_alpha,
-        icc: icc.filter(|b| !b.is_empty()),
+        icc,
     })
 }
 
-/// Reads what an image holds without decoding its pixels.
-pub fn probe(path: &Path) -> Result<RasterInfo, RasterError> {
-    if let Some(mut dec) = open_cmyk(path)? {
-        return cmyk_info(path, &mut dec);
+/// Whether a PNG has a chunk of type `kind` before its image data, walking
+/// the chunk headers (PNG spec 5.3) without reading their contents.
+fn png_has_chunk_before_data(path: &Path, kind: &[u8; 4]) -> Result<bool, RasterError> {
+    let mut r = BufReader::new(File::open(path).map_err(read_err(path))?);
+    r.seek(SeekFrom::Start(8)).map_err(read_err(path))?;
+    let mut head = [0u8; 8];
+    while r.read_exact(&mut head).is_ok() {
+        let len = u32::from_be_bytes([head[0], head[1], head[2], head[3]]);
+        let ty = &head[4..8];
+        if ty == kind {
+            return Ok(true);
+        }
+        if ty == b"IDAT" || ty == b"IEND" {
+            break;
+        }
+        r.seek_relative(i64::from(len) + 4).map_err(read_err(path))?;
     }
-    let (kind, mut dec) = open_decoder(path)?;
-    info_of(path, kind, dec.as_mut())
+    Ok(false)
 }
 
-/// Decodes an image.
-pub fn read(path: &Path) -> Result<Raster, RasterError> {
-    if let Some(mut dec) = open_cmyk(path)? {
-        return read_cmyk(path, &mut dec);
+/// Reads what an image holds without decoding its pixels, under the default
+/// [`DecodeLimits`].
+pub fn probe(path: &Path) -> Result<RasterInfo, RasterError> {
+    probe_within(path, &DecodeLimits::default())
+}
+
+/// Reads what an image holds without decoding its pixels; an image larger
+/// than `limits` is an error.
+pub fn probe_within(path: &Path, limits: &DecodeLimits) -> Result<RasterInfo, RasterError> {
+    if let Some(mut dec) = open_cmyk(path, limits)? {
+        return cmyk_info(path, &mut dec, limits);
     }
-    let (kind, mut dec) = open_decoder(path)?;
-    let info = info_of(path, kind, dec.as_mut())?;
-    let total = usize::try_from(dec.total_bytes()).map_err(|_| RasterError::Layout {
+    let (kind, mut dec) = open_decoder(path, limits)?;
+    info_of(path, kind, dec.as_mut(), limits)
+}
+
+/// Decodes an image under the default [`DecodeLimits`].
+pub fn read(path: &Path) -> Result<Raster, RasterError> {
+    read_within(path, &DecodeLimits::default())
+}
+
+/// Decodes an image; an image larger than `limits` is refused from its header,
+/// before any pixel buffer is allocated.
+pub fn read_within(path: &Path, limits: &DecodeLimits) -> Result<Raster, RasterError> {
+    if let Some(dec) = open_cmyk(path, limits)? {
+        return read_cmyk(path, dec, limits);
+    }
+    let (kind, mut dec) = open_decoder(path, limits)?;
+    let info = info_of(path, kind, dec.as_mut(), limits)?;
+    let total = dec.total_bytes();
+    // TIFF: the decoding buffer is the image itself and compressed chunks may
+    // take twice that (the image crate splits `max_alloc` so); the others
+    // need their metadata allowance only.
+    let alloc = match kind {
+        FileKind::Tiff => total.saturating_mul(3).saturating_add(1 << 20),
+        FileKind::Png | FileKind::Jpeg => total.saturating_add(METADATA_ALLOC),
+    };
+    dec.set_limits(limits.image_limits(alloc)).map_err(image_err(path))?;
+    let total = usize::try_from(total).map_err(|_| RasterError::Bounds {
         path: path_text(path),
-        layout: "too large".to_string(),
+        detail: format!("{total} bytes of pixels do not fit in memory"),
     })?;
-    let mut buf = vec![0u8; total];
-    dec.read_image_boxed(&mut buf).map_err(|e| RasterError::Decode {
-        path: path_text(path),
-        detail: e.to_string(),
-    })?;
+    let mut buf = zeroed(path, total)?;
+    dec.read_image_boxed(&mut buf).map_err(image_err(path))?;
     let (color, alpha) = if info.has_alpha {
-        let (c, a) = split_alpha(&buf, info.channels, info.bytes_per_sample());
+        let (c, a) = split_alpha(buf, info.channels, info.bytes_per_sample());
         (c, Some(a))
     } else {
         (buf, None)
@@ -241,34 +489,108 @@ pub fn read(path: &Path) -> Result<Raster, RasterError> {
     Ok(Raster { info, color, alpha })
 }
 
-type TiffReader = tiff::decoder::Decoder<BufReader<File>>;
-
-/// A `tiff` decoder when `path` is a TIFF whose first image is CMYK; `None`
-/// for every other file, which the image crate reads.
-fn open_cmyk(path: &Path) -> Result<Option<TiffReader>, RasterError> {
-    let p = path_text(path);
-    let read_err = |source| RasterError::Read {
-        path: p.clone(),
-        source,
-    };
-    let mut head = [0u8; 4];
-    {
-        use std::io::Read;
-        let mut f = File::open(path).map_err(read_err)?;
-        let n = f.read(&mut head).map_err(read_err)?;
-        if n < 4 || FileKind::sniff(&head) != Some(FileKind::Tiff) {
+/// Width and height from the first JPEG frame header (SOFn, ITU T.81 B.2.2)
+/// in the `len` bytes from the reader's position, walking the marker
+/// segments; `None` when the scan data or the end comes first.
+fn jpeg_frame_size<R: Read + Seek>(r: &mut R, len: u64) -> std::io::Result<Option<(u32, u32)>> {
+    let mut byte = [0u8; 1];
+    let mut pos = 0u64;
+    let mut next = |r: &mut R, pos: &mut u64| -> std::io::Result<Option<u8>> {
+        if *pos >= len {
             return Ok(None);
         }
-    }
-    let reader = BufReader::new(File::open(path).map_err(read_err)?);
-    let dec_err = |e: tiff::TiffError| RasterError::Decode {
-        path: p.clone(),
-        detail: e.to_string(),
+        match r.read(&mut byte)? {
+            0 => Ok(None),
+            _ => {
+                *pos += 1;
+                Ok(Some(byte[0]))
+            }
+        }
     };
-    let mut dec = tiff::decoder::Decoder::new(reader).map_err(dec_err)?;
+    loop {
+        // A marker is 0xFF (any number of fill bytes) and a code; bytes that
+        // are not part of one are skipped, as lenient decoders do.
+        let Some(b) = next(r, &mut pos)? else {
+            return Ok(None);
+        };
+        if b != 0xff {
+            continue;
+        }
+        let mut code = 0xff;
+        while code == 0xff {
+            match next(r, &mut pos)? {
+                Some(c) => code = c,
+                None => return Ok(None),
+            }
+        }
+        match code {
+            // Byte stuffing, SOI, RSTn, TEM: no segment follows.
+            0x00 | 0xd8 | 0xd0..=0xd7 | 0x01 => continue,
+            // EOI or SOS before any frame header.
+            0xd9 | 0xda => return Ok(None),
+            _ => {}
+        }
+        let mut seg = [0u8; 2];
+        for s in &mut seg {
+            match next(r, &mut pos)? {
+                Some(c) => *s = c,
+                None => return Ok(None),
+            }
+        }
+        let seg_len = u16::from_be_bytes(seg);
+        if seg_len < 2 {
+            return Ok(None);
+        }
+        let is_frame = matches!(code, 0xc0..=0xcf) && !matches!(code, 0xc4 | 0xc8 | 0xcc);
+        if is_frame {
+            // Lf (read), P, Y, X.
+            let mut f = [0u8; 5];
+            for s in &mut f {
+                match next(r, &mut pos)? {
+                    Some(c) => *s = c,
+                    None => return Ok(None),
+                }
+            }
+            let height = u32::from(u16::from_be_bytes([f[1], f[2]]));
+            let width = u32::from(u16::from_be_bytes([f[3], f[4]]));
+            return Ok(Some((width, height)));
+        }
+        let skip = u64::from(seg_len) - 2;
+        if pos + skip >= len {
+            return Ok(None);
+        }
+        r.seek(SeekFrom::Current(skip as i64))?;
+        pos += skip;
+    }
+}
+
+type TiffReader = tiff::decoder::Decoder<BufReader<File>>;
+
+/// TIFF 6.0, section 22 (and TIFF Technical Note 2): Compression 7 is JPEG
+/// with one JPEG stream per strip or tile.
+const TIFF_COMPRESSION_JPEG: u16 = 7;
+
+/// A `tiff` decoder when `path` is a TIFF whose first image is CMYK; `None`
+/// for every other file, which the image crate reads. Every TIFF, CMYK or
+/// not, has its JPEG strips or tiles checked here.
+fn open_cmyk(path: &Path, limits: &DecodeLimits) -> Result<Option<TiffReader>, RasterError> {
+    if sniff_file(path)? != Some(FileKind::Tiff) {
+        return Ok(None);
+    }
+    let reader = BufReader::new(File::open(path).map_err(read_err(path))?);
+    let mut dec = tiff::decoder::Decoder::new(reader).map_err(tiff_err(path))?;
+    let (w, h) = dec.dimensions().map_err(tiff_err(path))?;
+    limits.check(path, w, h)?;
+    let compression = dec
+        .find_tag(tiff::tags::Tag::Compression)
+        .map_err(tiff_err(path))?
+        .and_then(|v| v.into_u16().ok());
+    if compression == Some(TIFF_COMPRESSION_JPEG) {
+        check_jpeg_chunks(path, &mut dec, limits)?;
+    }
     let photometric = dec
         .find_tag(tiff::tags::Tag::PhotometricInterpretation)
-        .map_err(dec_err)?
+        .map_err(tiff_err(path))?
         .and_then(|v| v.into_u16().ok());
     // TIFF 6.0, section 16: PhotometricInterpretation 5 = separated (CMYK
     // with the default InkSet).
@@ -278,13 +600,69 @@ fn open_cmyk(path: &Path) -> Result<Option<TiffReader>, RasterError> {
     Ok(Some(dec))
 }
 
-fn cmyk_info(path: &Path, dec: &mut TiffReader) -> Result<RasterInfo, RasterError> {
-    let p = path_text(path);
-    let dec_err = |e: tiff::TiffError| RasterError::Decode {
-        path: p.clone(),
-        detail: e.to_string(),
+/// Each JPEG stream of a JPEG-compressed TIFF must declare no more than its
+/// strip or tile holds, and all of them together at most twice the pixel
+/// limit (tiles are padded past the image's edge): the decoder allocates
+/// and decodes what each stream declares.
+fn check_jpeg_chunks(path: &Path, dec: &mut TiffReader, limits: &DecodeLimits) -> Result<(), RasterError> {
+    use tiff::tags::Tag;
+    let (w, h) = dec.dimensions().map_err(tiff_err(path))?;
+    let u32_tag = |dec: &mut TiffReader, tag| -> Result<Option<u32>, RasterError> {
+        Ok(dec
+            .find_tag(tag)
+            .map_err(tiff_err(path))?
+            .and_then(|v| v.into_u32().ok()))
     };
-    let bits = match dec.colortype().map_err(dec_err)? {
+    let (offsets_tag, counts_tag, chunk) = match dec.get_chunk_type() {
+        tiff::decoder::ChunkType::Strip => {
+            let rows = u32_tag(dec, Tag::RowsPerStrip)?.unwrap_or(h).min(h);
+            (Tag::StripOffsets, Tag::StripByteCounts, (w, rows))
+        }
+        tiff::decoder::ChunkType::Tile => {
+            let tw = u32_tag(dec, Tag::TileWidth)?.unwrap_or(0);
+            let th = u32_tag(dec, Tag::TileLength)?.unwrap_or(0);
+            (Tag::TileOffsets, Tag::TileByteCounts, (tw, th))
+        }
+    };
+    let offsets = dec.get_tag_u64_vec(offsets_tag).map_err(tiff_err(path))?;
+    let counts = dec.get_tag_u64_vec(counts_tag).map_err(tiff_err(path))?;
+    let mut file = BufReader::with_capacity(4096, File::open(path).map_err(read_err(path))?);
+    let budget = limits.max_pixels.saturating_mul(2);
+    let mut decoded = 0u64;
+    for (i, (&off, &count)) in offsets.iter().zip(&counts).enumerate() {
+        file.seek(SeekFrom::Start(off)).map_err(read_err(path))?;
+        let Some((jw, jh)) = jpeg_frame_size(&mut file, count).map_err(read_err(path))? else {
+            // No frame header: the decoder reports the damage.
+            continue;
+        };
+        if jw > chunk.0 || jh > chunk.1 {
+            return Err(RasterError::Bounds {
+                path: path_text(path),
+                detail: format!(
+                    "JPEG stream {i} declares {jw} × {jh} pixels in a strip or tile of {} × {}",
+                    chunk.0, chunk.1
+                ),
+            });
+        }
+        decoded = decoded.saturating_add(u64::from(jw) * u64::from(jh));
+        if decoded > budget {
+            return Err(RasterError::Bounds {
+                path: path_text(path),
+                detail: format!(
+                    "its JPEG streams declare more than {} megapixels together",
+                    megapixel_text(budget)
+                ),
+            });
+        }
+    }
+    Ok(())
+}
+
+fn cmyk_info(path: &Path, dec: &mut TiffReader, limits: &DecodeLimits) -> Result<RasterInfo, RasterError> {
+    let p = path_text(path);
+    let (width, height) = dec.dimensions().map_err(tiff_err(path))?;
+    limits.check(path, width, height)?;
+    let bits = match dec.colortype().map_err(tiff_err(path))? {
         tiff::ColorType::CMYK(8) => 8,
         tiff::ColorType::CMYK(16) => 16,
         other => {
@@ -294,15 +672,26 @@ fn cmyk_info(path: &Path, dec: &mut TiffReader) -> Result<RasterInfo, RasterErro
             })
         }
     };
-    let (width, height) = dec.dimensions().map_err(dec_err)?;
     if width == 0 || height == 0 {
         return Err(RasterError::Layout {
             path: p,
             layout: "empty (0-pixel)".to_string(),
         });
     }
-    let icc = match dec.find_tag(tiff::tags::Tag::IccProfile).map_err(dec_err)? {
-        Some(v) => Some(v.into_u8_vec().map_err(dec_err)?),
+    // TIFF 6.0, section 8: PlanarConfiguration 2 stores each ink apart.
+    let planar = dec
+        .find_tag(tiff::tags::Tag::PlanarConfiguration)
+        .map_err(tiff_err(path))?
+        .and_then(|v| v.into_u16().ok());
+    if planar == Some(2) {
+        return Err(RasterError::Layout {
+            path: p,
+            layout: "planar CMYK".to_string(),
+        });
+    }
+    // Read before any limits are set (they apply to tag values too).
+    let icc = match dec.find_tag(tiff::tags::Tag::IccProfile).map_err(tiff_err(path))? {
+        Some(v) => Some(v.into_u8_vec().map_err(tiff_err(path))?),
         None => None,
     };
     Ok(RasterInfo {
@@ -316,29 +705,16 @@ fn cmyk_info(path: &Path, dec: &mut TiffReader) -> Result<RasterInfo, RasterErro
     })
 }
 
-fn read_cmyk(path: &Path, dec: &mut TiffReader) -> Result<Raster, RasterError> {
-    let info = cmyk_info(path, dec)?;
-    let p = path_text(path);
-    let data = dec.read_image().map_err(|e| RasterError::Decode {
-        path: p.clone(),
-        detail: e.to_string(),
-    })?;
-    let color: Vec<u8> = match data {
-        tiff::decoder::DecodingResult::U8(v) if info.bits == 8 => v,
-        tiff::decoder::DecodingResult::U16(v) if info.bits == 16 => v.iter().flat_map(|x| x.to_ne_bytes()).collect(),
-        _ => {
-            return Err(RasterError::Decode {
-                path: p,
-                detail: "the samples do not match the declared bit depth".to_string(),
-            })
-        }
-    };
-    if color.len() != info.pixels() * 4 * info.bytes_per_sample() {
-        return Err(RasterError::Decode {
-            path: p,
-            detail: "the pixel data is shorter or longer than the image".to_string(),
-        });
-    }
+fn read_cmyk(path: &Path, mut dec: TiffReader, limits: &DecodeLimits) -> Result<Raster, RasterError> {
+    let info = cmyk_info(path, &mut dec, limits)?;
+    let bytes = info.pixels() * 4 * info.bytes_per_sample();
+    let mut l = tiff::decoder::Limits::default();
+    l.decoding_buffer_size = bytes;
+    l.intermediate_buffer_size = bytes.saturating_mul(2).saturating_add(1 << 20);
+    let mut dec = dec.with_limits(l);
+    let mut color = zeroed(path, bytes)?;
+    // Samples straight into the buffer, 16-bit ones in native byte order.
+    dec.read_image_bytes(&mut color).map_err(tiff_err(path))?;
     Ok(Raster {
         info,
         color,
@@ -346,18 +722,24 @@ fn read_cmyk(path: &Path, dec: &mut TiffReader) -> Result<Raster, RasterError> {
     })
 }
 
-/// Splits interleaved colour+alpha samples into a colour buffer and an alpha
-/// plane.
-fn split_alpha(buf: &[u8], channels: usize, bps: usize) -> (Vec<u8>, Vec<u8>) {
+/// Splits interleaved colour+alpha samples into a colour buffer (the input's,
+/// compacted in place) and an alpha plane.
+fn split_alpha(mut buf: Vec<u8>, channels: usize, bps: usize) -> (Vec<u8>, Vec<u8>) {
     let px = (channels + 1) * bps;
+    let c = channels * bps;
     let n = buf.len() / px;
-    let mut color = Vec::with_capacity(n * channels * bps);
     let mut alpha = Vec::with_capacity(n * bps);
     for p in buf.chunks_exact(px) {
-        color.extend_from_slice(&p[..channels * bps]);
-        alpha.extend_from_slice(&p[channels * bps..]);
+        alpha.extend_from_slice(&p[c..]);
     }
-    (color, alpha)
+    // Pixel i moves from i·px to i·c ≤ i·px: it never overwrites a pixel
+    // not yet moved.
+    for i in 1..n {
+        buf.copy_within(i * px..i * px + c, i * c);
+    }
+    buf.truncate(n * c);
+    buf.shrink_to_fit();
+    (buf, alpha)
 }
 
 /// Interleaves RGB samples with an alpha plane.
@@ -454,7 +836,7 @@ mod tests {
     fn alpha_split_and_join_are_inverse() {
         // 2 pixels RGBA16 as bytes.
         let buf: Vec<u8> = (0u8..16).collect();
-        let (c, a) = split_alpha(&buf, 3, 2);
+        let (c, a) = split_alpha(buf.clone(), 3, 2);
         assert_eq!(c, vec![0, 1, 2, 3, 4, 5, 8, 9, 10, 11, 12, 13]);
         assert_eq!(a, vec![6, 7, 14, 15]);
         assert_eq!(join_alpha(&c, &a, 2), buf);
