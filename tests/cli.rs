@@ -122,12 +122,7 @@ fn strict_exits_one_exactly_when_the_verdict_fails() {
     ]);
     assert_eq!(o.status.code(), Some(1), "{}", stderr(&o));
     let v = json(&o);
-    let kinds: Vec<&str> = v["verdict"]["reasons"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .map(|r| r["check"].as_str().unwrap())
-        .collect();
+    let kinds = verdict_reasons(&v);
     assert_eq!(kinds, ["gamut"]);
 }
 
@@ -430,15 +425,6 @@ fn check_svg_joins_the_pairs_that_collapse_in_print() {
 /// measures from its Lab → CMYK table must agree within 1 %.
 const BUILTIN_TAC: f64 = 330.0;
 
-fn reason_kinds(v: &serde_json::Value) -> Vec<String> {
-    v["verdict"]["reasons"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .map(|r| r["check"].as_str().unwrap().to_string())
-        .collect()
-}
-
 #[test]
 fn check_flags_press_colours_that_need_more_ink_than_the_press_allows() {
     let dir = tempfile::tempdir().unwrap();
@@ -476,7 +462,7 @@ fn check_flags_press_colours_that_need_more_ink_than_the_press_allows() {
         assert_eq!(v["summary"]["over_ink_limit"], 1, "{test}");
         assert_eq!(v["summary"]["out_of_gamut"], 1, "{test}");
         assert_eq!(v["verdict"]["passes"], false, "{test}");
-        assert_eq!(reason_kinds(&v), ["gamut", "ink_limit"], "{test}");
+        assert_eq!(verdict_reasons(&v), ["gamut", "ink_limit"], "{test}");
         let detail = v["verdict"]["reasons"][1]["detail"].as_str().unwrap();
         assert!(detail.ends_with(": Rich black"), "{test}: names the entry: {detail}");
 

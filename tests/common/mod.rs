@@ -52,3 +52,15 @@ pub fn assert_error(o: &Output, needles: &[&str]) {
     }
     assert!(!err.contains("panicked"), "{err}");
 }
+
+/// The `check` of each reason of the JSON verdict, in order.
+pub fn verdict_reasons(v: &Value) -> Vec<String> {
+    v["verdict"]["reasons"]
+        .as_array()
+        .map(|a| {
+            a.iter()
+                .filter_map(|r| r["check"].as_str().map(str::to_string))
+                .collect()
+        })
+        .unwrap_or_default()
+}
