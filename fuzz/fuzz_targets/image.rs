@@ -1,0 +1,39 @@
+//! Image files for soft proofs: `inkfit::proof::raster::probe` and `read`.
+//! They take a path, so each input is written to a scratch file in memory
+//! first. An image that decodes must hold exactly the samples its info
+//! declares, since the proof code indexes the buffers by pixel.
+#![no_main]
+
+use inkfit::proof::raster::{probe, read};
+use libfuzzer_sys::fuzz_target;
+
+fuzz_target!(|data: &[u8]| {
+    let path = inkfit_fuzz::scratch_file(data);
+    let probed = probe(path);
+    if let Err(e) = &probed {
+        let _ = e.to_string();
+    }
+    match read(path) {
+        Ok(r) => {
+            let info = &r.info;
+            assert!(
+                matches!(info.channels, 1 | 3 | 4) && matches!(info.bits, 8 | 16),
+                "property: layout {info:?}"
+            );
+            let samples = info.pixels() * info.channels * info.bytes_per_sample();
+            assert_eq!(r.color.len(), samples, "property: colour buffer size for {info:?}");
+            if let Some(a) = &r.alpha {
+                assert!(info.has_alpha, "property: alpha plane only when declared");
+                assert_eq!(a.len(), info.pixels() * info.bytes_per_sample(), "property: alpha size");
+            } else {
+                assert!(!info.has_alpha, "property: declared alpha is present");
+            }
+            // probe reports what read decodes.
+            let p = probed.expect("property: an image that reads also probes");
+            assert_eq!(&p, info, "property: probe and read agree");
+        }
+        Err(e) => {
+            let _ = e.to_string();
+        }
+    }
+});
