@@ -1,19 +1,22 @@
-//! Image files for soft proofs: `inkfit::proof::raster::probe` and `read`.
-//! They take a path, so each input is written to a scratch file in memory
-//! first. An image that decodes must hold exactly the samples its info
+//! Image files for soft proofs: `inkfit::proof::raster::probe_within` and
+//! `read_within`, under a 4-megapixel limit so that every image the limit
+//! admits decodes well inside the target's 256 MiB allocation limit: an
+//! allocation beyond it is a bound that failed. They take a path, so each
+//! input is written to a scratch file in memory first. An image that decodes must hold exactly the samples its info
 //! declares, since the proof code indexes the buffers by pixel.
 #![no_main]
 
-use inkfit::proof::raster::{probe, read};
+use inkfit::proof::raster::{probe_within, read_within, DecodeLimits};
 use libfuzzer_sys::fuzz_target;
 
 fuzz_target!(|data: &[u8]| {
     let path = inkfit_fuzz::scratch_file(data);
-    let probed = probe(path);
+    let limits = DecodeLimits { max_pixels: 4_000_000 };
+    let probed = probe_within(path, &limits);
     if let Err(e) = &probed {
         let _ = e.to_string();
     }
-    match read(path) {
+    match read_within(path, &limits) {
         Ok(r) => {
             let info = &r.info;
             assert!(
