@@ -9,7 +9,7 @@ mod common;
 use std::fs;
 use std::path::{Path, PathBuf};
 
-use common::{assert_error, demo, json, run, stderr, stdout, verdict_reasons};
+use common::{assert_error, demo, json, listing, run, stderr, stdout, verdict_reasons};
 
 fn copy_demo(dir: &Path, name: &str) -> PathBuf {
     let p = dir.join(name);
@@ -19,16 +19,6 @@ fn copy_demo(dir: &Path, name: &str) -> PathBuf {
 
 fn s(p: &Path) -> &str {
     p.to_str().unwrap()
-}
-
-/// Every entry of `dir`, sorted, to show nothing else was left there.
-fn listing(dir: &Path) -> Vec<String> {
-    let mut v: Vec<String> = fs::read_dir(dir)
-        .unwrap()
-        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
-        .collect();
-    v.sort();
-    v
 }
 
 #[test]

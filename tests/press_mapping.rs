@@ -350,7 +350,7 @@ fn hue_clip_is_the_nearest_boundary_point_of_its_hue_leaf() {
         [97.6, -15.8, 93.4],
     ] {
         let (l, c, h) = oklch(target);
-        let (ml, mc) = m.hue_clip(h, l, c);
+        let (ml, mc) = m.clip(h, l, c, RELATIVE_LIGHTNESS_WEIGHT);
         let mapped = m.map(Method::HueClip, LabD50::from_array(target));
         let (_, _, mh) = oklch(mapped.to_array());
         assert!(hue_diff(h, mh) < 1e-6, "hue moved {h} → {mh}");
@@ -372,7 +372,7 @@ fn hue_clip_is_the_nearest_boundary_point_of_its_hue_leaf() {
         // Inside colours are left alone.
         let inside = LabD50::new(60.0, 10.0, 10.0);
         assert_eq!(m.map(Method::HueClip, inside), inside);
-        // The weighted nearest point of the leaf is what hue_clip returns.
+        // The weighted nearest point of the leaf is what the clip returns.
         let again = nearest_weighted(&m.press.leaf(h), (l, c), kl);
         assert!((again.0 - ml).abs() < 1e-12 && (again.1 - mc).abs() < 1e-12);
     }

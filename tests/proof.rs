@@ -4,7 +4,7 @@
 mod common;
 use common::*;
 
-use std::path::{Path, PathBuf};
+use std::path::Path;
 
 use image::codecs::png::PngEncoder;
 use image::codecs::tiff::{TiffDecoder, TiffEncoder};
@@ -447,12 +447,6 @@ fn grey_image_with_alpha_proofs_to_rgb_and_keeps_alpha() {
     assert_eq!((r.info.channels, r.info.has_alpha), (3, true));
     let alpha: Vec<u8> = la.iter().skip(1).step_by(2).copied().collect();
     assert_eq!(r.alpha.unwrap(), alpha);
-}
-
-fn listing(dir: &Path) -> Vec<PathBuf> {
-    let mut v: Vec<PathBuf> = std::fs::read_dir(dir).unwrap().map(|e| e.unwrap().path()).collect();
-    v.sort();
-    v
 }
 
 #[test]

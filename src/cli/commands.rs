@@ -25,7 +25,8 @@ pub enum Outcome {
 
 pub type Error = Box<dyn std::error::Error + Send + Sync>;
 
-fn use_color() -> bool {
+/// Colour in tables: stdout is a terminal and NO_COLOR is unset or empty.
+pub(super) fn use_color() -> bool {
     std::io::stdout().is_terminal() && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
 }
 

@@ -431,8 +431,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if a.json {
         crate::report::write_json(out, &r)?;
     } else {
-        let color = std::io::stdout().is_terminal() && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty());
-        report::render(out, &r, color)?;
+        report::render(out, &r, super::commands::use_color())?;
     }
     Ok(if a.strict && beyond {
         Outcome::BeyondTolerance

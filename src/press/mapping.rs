@@ -101,17 +101,13 @@ pub enum Method {
 }
 
 impl Method {
-    /// The method in words, for documents and reports.
-    pub fn describe(self) -> &'static str {
+    /// Weight of lightness against chroma differences of a clipping
+    /// method; `None` for the compression.
+    fn clip_weight(self) -> Option<f64> {
         match self {
-            Method::HueClip => {
-                "hue-preserving minimum-distance clipping in OKLab (HPMINDE, CIE 156:2004), lightness weighted by 1/2"
-            }
-            Method::Compress => {
-                "SGCK (CIE 156:2004) in OKLab from the ITU-R BT.2020 gamut: sigmoidal chroma-dependent \
-                 lightness compression, 90 % knee compression towards the press cusp's lightness"
-            }
-            Method::KeepChroma => "hue-preserving clipping in OKLab, lightness weighted by 1/4: chroma kept first",
+            Method::HueClip => Some(RELATIVE_LIGHTNESS_WEIGHT),
+            Method::KeepChroma => Some(SATURATION_LIGHTNESS_WEIGHT),
+            Method::Compress => None,
         }
     }
 }
@@ -239,7 +235,12 @@ impl LeafGamut {
 
     /// Whether OKLab (l, c) at hue h lies inside.
     pub fn contains(&self, h: f64, l: f64, c: f64) -> bool {
-        (self.l_min..=self.l_max).contains(&l) && c <= self.max_chroma(h, l) + 1e-12
+        self.contains_on(&self.leaf(h), l, c)
+    }
+
+    /// [`LeafGamut::contains`] on the leaf of one hue, already built.
+    fn contains_on(&self, leaf: &[LeafPoint], l: f64, c: f64) -> bool {
+        (self.l_min..=self.l_max).contains(&l) && c <= chroma_on(leaf, l, self.l_min, self.step()) + 1e-12
     }
 
     /// The most chromatic point of the leaf at hue `h`.
@@ -278,19 +279,15 @@ fn cusp_of(leaf: &[LeafPoint]) -> LeafPoint {
 }
 
 /// The point of the polyline `leaf` nearest to `p`, with lightness
-/// differences weighted by `kl` (1: Euclidean).
+/// differences weighted by `kl` (1: Euclidean): the nearest point in the
+/// plane whose lightness axis is scaled by `kl`.
 pub fn nearest_weighted(leaf: &[LeafPoint], p: LeafPoint, kl: f64) -> LeafPoint {
-    let scaled: Vec<LeafPoint> = leaf.iter().map(|q| (q.0 * kl, q.1)).collect();
-    let n = nearest_on(&scaled, (p.0 * kl, p.1));
-    (n.0 / kl, n.1)
-}
-
-/// The point of the polyline `leaf` nearest to `p` (Euclidean).
-pub fn nearest_on(leaf: &[LeafPoint], p: LeafPoint) -> LeafPoint {
-    let mut best = leaf[0];
+    let scale = |q: LeafPoint| (q.0 * kl, q.1);
+    let p = scale(p);
+    let mut best = scale(leaf[0]);
     let mut best_d = f64::INFINITY;
     for s in leaf.windows(2) {
-        let (a, b) = (s[0], s[1]);
+        let (a, b) = (scale(s[0]), scale(s[1]));
         let (dx, dy) = (b.0 - a.0, b.1 - a.1);
         let len2 = dx * dx + dy * dy;
         let t = if len2 > 0.0 {
@@ -305,7 +302,7 @@ pub fn nearest_on(leaf: &[LeafPoint], p: LeafPoint) -> LeafPoint {
             best = q;
         }
     }
-    best
+    (best.0 / kl, best.1)
 }
 
 /// Distance from `from` along the unit direction `u` to where the ray first
@@ -468,10 +465,9 @@ impl Mapper {
     /// press gamut (up to the descriptor's resolution).
     pub fn map(&self, method: Method, target: LabD50) -> LabD50 {
         let (l, c, h) = polar(lab_d50_to_oklab(target));
-        let (l2, c2) = match method {
-            Method::HueClip => self.hue_clip(h, l, c),
-            Method::Compress => self.compress(h, l, c, target.a.hypot(target.b)),
-            Method::KeepChroma => self.keep_chroma(h, l, c),
+        let (l2, c2) = match method.clip_weight() {
+            Some(kl) => self.clip(h, l, c, kl),
+            None => self.compress(h, l, c, target.a.hypot(target.b)),
         };
         if l2 == l && c2 == c {
             return target;
@@ -480,12 +476,15 @@ impl Mapper {
         oklab_to_lab_d50(ok[0], ok[1], ok[2])
     }
 
-    /// HPMINDE: unchanged inside, else the nearest boundary point of the leaf.
-    pub fn hue_clip(&self, h: f64, l: f64, c: f64) -> LeafPoint {
-        if self.press.contains(h, l, c) {
+    /// The clip of relative colorimetric (HPMINDE) and, with its own
+    /// weight, of saturation: unchanged inside, else the boundary point of
+    /// the leaf nearest with lightness weighted by `kl`.
+    pub fn clip(&self, h: f64, l: f64, c: f64, kl: f64) -> LeafPoint {
+        let leaf = self.press.leaf(h);
+        if self.press.contains_on(&leaf, l, c) {
             return (l, c);
         }
-        nearest_weighted(&self.press.leaf(h), (l, c), RELATIVE_LIGHTNESS_WEIGHT)
+        nearest_weighted(&leaf, (l, c), kl)
     }
 
     /// Whether a media-relative CIELAB colour lies clearly outside the press
@@ -522,7 +521,7 @@ impl Mapper {
         }
         let u = (dir.0 / d, dir.1 / d);
         let Some(d_r) = ray_exit(&press_leaf, focal, u) else {
-            return nearest_on(&press_leaf, (lr, c));
+            return nearest_weighted(&press_leaf, (lr, c), 1.0);
         };
         // The source boundary after the same lightness compression.
         let source_leaf: Vec<LeafPoint> = self
@@ -549,15 +548,5 @@ impl Mapper {
             d.min(d_r)
         };
         (focal.0 + d2 * u.0, d2 * u.1)
-    }
-
-    /// Saturation: the hue-preserving clip with lightness weighted by
-    /// [`SATURATION_LIGHTNESS_WEIGHT`]: a colour gives up lightness before
-    /// chroma.
-    pub fn keep_chroma(&self, h: f64, l: f64, c: f64) -> LeafPoint {
-        if self.press.contains(h, l, c) {
-            return (l, c);
-        }
-        nearest_weighted(&self.press.leaf(h), (l, c), SATURATION_LIGHTNESS_WEIGHT)
     }
 }

@@ -64,3 +64,16 @@ pub fn verdict_reasons(v: &Value) -> Vec<String> {
         })
         .unwrap_or_default()
 }
+
+/// The names of the entries of `dir`, sorted; empty when there is no such
+/// folder. For checking that a run left nothing else behind.
+pub fn listing(dir: &Path) -> Vec<String> {
+    let mut v: Vec<String> = match std::fs::read_dir(dir) {
+        Ok(rd) => rd
+            .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+            .collect(),
+        Err(_) => Vec::new(),
+    };
+    v.sort();
+    v
+}
