@@ -320,11 +320,14 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             outputs.claim(m)?;
             outputs.claim(l)?;
         }
+        let unusable = |e: &IccError| -> Error {
+            format!("'{}': its embedded ICC profile cannot be used: {e}", input.display()).into()
+        };
         let embedded = match &info.icc {
             Some(bytes) => {
                 let name = format!("{} (embedded profile)", input.display());
                 let p = IccProfile::from_bytes(&name, Origin::File(input.clone()), bytes.clone())
-                    .map_err(|e| format!("'{}': its embedded ICC profile cannot be used: {e}", input.display()))?;
+                    .map_err(|e| unusable(&e))?;
                 check_embedded(&p, info.channels).map_err(|e| format!("'{}': {e}", input.display()))?;
                 Some(p)
             }
@@ -341,10 +344,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
                 let built =
                     ProofEngine::new(src, channels, info.bits, &screen, &press, mapping).map_err(|e| {
                         match (&embedded, &e) {
-                            (Some(p), IccError::Transform { name, .. }) if *name == p.name => Error::from(format!(
-                                "'{}': its embedded ICC profile cannot be used: {e}",
-                                input.display()
-                            )),
+                            (Some(p), IccError::Transform { name, .. }) if *name == p.name => unusable(&e),
                             _ => Error::from(e),
                         }
                     })?;
