@@ -62,15 +62,11 @@ pub fn node_code(i: u32, n: u32) -> u16 {
     v.clamp(0.0, 65535.0) as u16
 }
 
-/// ICC v4 16-bit CIELAB PCS decoding (ICC.1:2010, PCS encodings; section
-/// number not given here as it is not recalled reliably):
-/// L* = 100·v/65535, a*, b* = 255·v/65535 − 128.
-pub fn lab_from_v4_codes(v: [u16; 3]) -> LabD50 {
-    LabD50::new(
-        v[0] as f64 * 100.0 / 65535.0,
-        v[1] as f64 * 255.0 / 65535.0 - 128.0,
-        v[2] as f64 * 255.0 / 65535.0 - 128.0,
-    )
+/// ICC v4 CIELAB PCS decoding (ICC.1:2010, PCS encodings; section number
+/// not given here as it is not recalled reliably) of encoded values 0..1
+/// (16-bit code / 65535): L* = 100·v, a*, b* = 255·v − 128.
+pub fn lab_from_v4_encoded(v: [f64; 3]) -> LabD50 {
+    LabD50::new(100.0 * v[0], 255.0 * v[1] - 128.0, 255.0 * v[2] - 128.0)
 }
 
 /// The ICC v4 encoded a* or b* (0..1, 0 at 128/255) where the input curve
@@ -114,11 +110,7 @@ pub fn ab_curve_inverse(y: f64) -> f64 {
 pub fn b2a_node_target(l: u32, a: u32, b: u32) -> LabD50 {
     let pos = |i: u32, n: u32| i as f64 / (n - 1) as f64;
     let enc = |i: u32, n: u32| ab_curve_inverse(pos(i, n));
-    LabD50::new(
-        100.0 * pos(l, B2A_GRID[0]),
-        255.0 * enc(a, B2A_GRID[1]) - 128.0,
-        255.0 * enc(b, B2A_GRID[2]) - 128.0,
-    )
+    lab_from_v4_encoded([pos(l, B2A_GRID[0]), enc(a, B2A_GRID[1]), enc(b, B2A_GRID[2])])
 }
 
 /// The Lab target of every B2A node, in table order (L slowest, b fastest).
@@ -690,7 +682,8 @@ mod tests {
             let mut lab = ffi::CIELab::default();
             // SAFETY: three readable codes, one writable CIELab.
             unsafe { ffi::cmsLabEncoded2Float(&mut lab, [v, v, v].as_ptr()) };
-            let ours = lab_from_v4_codes([v, v, v]);
+            let x = v as f64 / 65535.0;
+            let ours = lab_from_v4_encoded([x, x, x]);
             assert!((ours.l - lab.L).abs() < 1e-9 && (ours.a - lab.a).abs() < 1e-9 && (ours.b - lab.b).abs() < 1e-9);
         }
     }

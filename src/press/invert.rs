@@ -577,6 +577,8 @@ pub fn invert_mapped(
 pub const IN_GAMUT_E76: f64 = 0.01;
 
 /// Inverts many targets in parallel for one rendering intent's mapping.
+/// Each target is solved independently of the others, so the result does
+/// not depend on the thread schedule.
 pub fn invert_all_mapped(
     cond: &PrintCondition,
     mapper: &Mapper,
@@ -591,16 +593,9 @@ pub fn invert_all_mapped(
 }
 
 /// Inverts one media-relative target (builds its own start table; for many
-/// targets use [`invert_all`]).
+/// targets use [`invert_all_mapped`]).
 pub fn invert(cond: &PrintCondition, target: LabD50) -> InkSolution {
     invert_with(cond, &StartTable::new(cond), target)
-}
-
-/// Inverts many targets in parallel. Each target is solved independently
-/// of the others, so the result does not depend on the thread schedule.
-pub fn invert_all(cond: &PrintCondition, targets: &[LabD50]) -> Vec<InkSolution> {
-    let table = StartTable::new(cond);
-    targets.par_iter().map(|t| invert_with(cond, &table, *t)).collect()
 }
 
 #[cfg(test)]
