@@ -4,8 +4,8 @@
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
-use super::commands::{Error, Outcome};
 use super::GamutArgs;
+use super::{Error, Outcome};
 use crate::gamut::export::{write_mesh, MeshFormat};
 use crate::gamut::report::{self, GamutReport, MeshFile};
 use crate::gamut::{coverage_all, Gamut, GamutError, GamutOptions};
@@ -54,7 +54,7 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         .map(|s| IccProfile::load(s))
         .collect::<Result<Vec<_>, _>>()?;
     let refs: Vec<&IccProfile> = profiles.iter().collect();
-    let mut outputs = super::commands::guarded_outputs(&[], &refs);
+    let mut outputs = super::guarded_outputs(&[], &refs);
     if let Some(base) = &a.mesh {
         for k in 0..profiles.len() {
             outputs.claim(&mesh_path(base, k, profiles.len()))?;

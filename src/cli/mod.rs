@@ -1,17 +1,25 @@
-//! Command-line interface: clap definitions, a plan resolved from the
-//! arguments before any work starts, and one small `run` per subcommand.
+//! Command-line interface: clap definitions, a plan resolved
+//! from the arguments before any work starts, and one small `run` per
+//! subcommand. Built only with the `cli` feature (on by default): the
+//! library alone needs neither clap nor a progress bar.
+//!
+//! The subcommand modules use this module's [`Error`], [`Outcome`] and
+//! helpers; it calls them only through [`run`].
 
-mod commands;
+mod check;
 mod gamut;
 pub mod plot;
+mod profiles;
 mod proof;
 pub mod repair;
 
-use std::path::PathBuf;
+use std::io::{IsTerminal, Write};
+use std::path::{Path, PathBuf};
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
 
-pub use commands::run;
+use crate::icc::IccProfile;
+use crate::io::Outputs;
 
 #[derive(Parser, Debug)]
 #[command(
@@ -196,7 +204,64 @@ pub struct BuildPressArgs {
     pub out: PathBuf,
 }
 
-pub use commands::Outcome;
+/// How a successful run ended.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Outcome {
+    Done,
+    /// `--strict` and something was beyond tolerance.
+    BeyondTolerance,
+}
+
+pub type Error = Box<dyn std::error::Error + Send + Sync>;
+
+/// Runs the subcommand `cli` names, writing its report to `out`.
+pub fn run(cli: Cli, out: &mut dyn Write) -> Result<Outcome, Error> {
+    match cli.command {
+        Command::Check(a) => check::run_check(a, out),
+        Command::Delta(a) => check::run_delta(a, out),
+        Command::Inspect(a) => profiles::run_inspect(a, out),
+        Command::Profiles(a) => profiles::run_profiles(a, out),
+        Command::Proof(a) => proof::run_proof(a, out),
+        Command::Gamut(a) => gamut::run_gamut(a, out),
+        Command::Plot(a) => plot::run_plot(a),
+        Command::Repair(a) => repair::run_repair(a, out),
+        Command::BuildPress(a) => profiles::run_build_press(a),
+    }
+}
+
+/// Colour in tables: stdout is a terminal and NO_COLOR is unset or empty.
+pub(super) fn use_color() -> bool {
+    std::io::stdout().is_terminal() && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
+}
+
+/// The output guard of a run, knowing its input files: `files` as given and
+/// the profiles read from files.
+pub(super) fn guarded_outputs(files: &[&Path], profiles: &[&IccProfile]) -> Outputs {
+    let mut o = Outputs::new();
+    for f in files {
+        o.input(f);
+    }
+    for p in profiles {
+        if let Some(f) = p.file() {
+            o.input(f);
+        }
+    }
+    o
+}
+
+/// Palettes from this many entries up take long enough to show progress.
+pub(super) const BUSY_FROM: usize = 500;
+
+/// A spinner with `message` on stderr when `wanted` and stderr is a
+/// terminal; hidden otherwise.
+pub(super) fn busy(wanted: bool, message: String) -> indicatif::ProgressBar {
+    if !wanted || !std::io::stderr().is_terminal() {
+        return indicatif::ProgressBar::hidden();
+    }
+    let bar = indicatif::ProgressBar::new_spinner().with_message(message);
+    bar.enable_steady_tick(std::time::Duration::from_millis(120));
+    bar
+}
 
 /// The error and its causes on one line; causes whose text the message
 /// already includes are not repeated.

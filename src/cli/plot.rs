@@ -6,8 +6,8 @@ use std::path::{Path, PathBuf};
 
 use clap::Args;
 
-use super::commands::{Error, Outcome};
 use super::MappingArgs;
+use super::{Error, Outcome};
 use crate::gamut::Gamut;
 use crate::icc::transform::{resolve_lab, PressMapping};
 use crate::icc::IccProfile;

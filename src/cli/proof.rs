@@ -23,7 +23,7 @@ use std::sync::{Condvar, Mutex};
 
 use clap::Args;
 
-use super::commands::{Error, Outcome};
+use super::{Error, Outcome};
 use super::{IntentArg, ProfileArgs};
 use crate::icc::transform::PressMapping;
 use crate::icc::{Direction, IccError, IccProfile, Origin};
@@ -279,7 +279,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         }
         None => None,
     };
-    let mut outputs = super::commands::guarded_outputs(&[], &[&screen, &press]);
+    let mut outputs = super::guarded_outputs(&[], &[&screen, &press]);
     for input in &inputs {
         outputs.input(input);
     }
@@ -431,7 +431,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if a.json {
         crate::report::write_json(out, &r)?;
     } else {
-        report::render(out, &r, super::commands::use_color())?;
+        report::render(out, &r, super::use_color())?;
     }
     Ok(if a.strict && beyond {
         Outcome::BeyondTolerance

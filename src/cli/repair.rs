@@ -7,7 +7,7 @@ use std::path::PathBuf;
 
 use clap::{Args, ValueEnum};
 
-use super::commands::{Error, Outcome};
+use super::{Error, Outcome};
 use super::{MappingArgs, ProfileArgs};
 use crate::color::cvd::Deficiency;
 use crate::icc::IccProfile;
@@ -140,7 +140,7 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
     let (palette, text) = Palette::read_with_text(&a.palette)?;
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
-    let mut outputs = super::commands::guarded_outputs(&[&a.palette], &[&screen, &press]);
+    let mut outputs = super::guarded_outputs(&[&a.palette], &[&screen, &press]);
     outputs.claim(&a.out)?;
     let gamut = crate::gamut::Gamut::of_profile(&press, Default::default())?;
     let opts = RepairOptions {

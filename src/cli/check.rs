@@ -1,83 +1,22 @@
-//! One `run` per subcommand: resolve the plan (profiles loaded and checked),
-//! compute, then render to stdout.
+//! `check` (a palette against a press) and `delta` (two colours).
 
-use std::io::{IsTerminal, Write};
-use std::path::Path;
+use std::io::Write;
 
-use super::{BuildPressArgs, CheckArgs, Cli, Command, DeltaArgs, InspectArgs, ProfilesArgs};
+use super::{busy, guarded_outputs, use_color, CheckArgs, DeltaArgs, Error, GamutTestArg, Outcome, BUSY_FROM};
 use crate::color::css::parse_color;
 use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
 use crate::gamut::InkLimit;
 use crate::icc::transform::resolve_lab;
-use crate::icc::{builtin, inspect, IccProfile};
-use crate::io::Outputs;
+use crate::icc::IccProfile;
 use crate::report::{self, DeltaColor, DeltaReport};
 use crate::swatch::check::{check_against, CheckOptions};
 use crate::swatch::Palette;
-
-/// How a successful run ended.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Outcome {
-    Done,
-    /// `--strict` and something was beyond tolerance.
-    BeyondTolerance,
-}
-
-pub type Error = Box<dyn std::error::Error + Send + Sync>;
-
-/// Colour in tables: stdout is a terminal and NO_COLOR is unset or empty.
-pub(super) fn use_color() -> bool {
-    std::io::stdout().is_terminal() && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
-}
-
-/// The output guard of a run, knowing its input files: `files` as given and
-/// the profiles read from files.
-pub(super) fn guarded_outputs(files: &[&Path], profiles: &[&IccProfile]) -> Outputs {
-    let mut o = Outputs::new();
-    for f in files {
-        o.input(f);
-    }
-    for p in profiles {
-        if let Some(f) = p.file() {
-            o.input(f);
-        }
-    }
-    o
-}
-
-/// Palettes from this many entries up take long enough to show progress.
-const BUSY_FROM: usize = 500;
-
-/// A spinner with `message` on stderr when `wanted` and stderr is a
-/// terminal; hidden otherwise.
-pub(super) fn busy(wanted: bool, message: String) -> indicatif::ProgressBar {
-    if !wanted || !std::io::stderr().is_terminal() {
-        return indicatif::ProgressBar::hidden();
-    }
-    let bar = indicatif::ProgressBar::new_spinner().with_message(message);
-    bar.enable_steady_tick(std::time::Duration::from_millis(120));
-    bar
-}
 
 fn round4(v: f64) -> f64 {
     (v * 1e4).round() / 1e4
 }
 
-pub fn run(cli: Cli, out: &mut dyn Write) -> Result<Outcome, Error> {
-    match cli.command {
-        Command::Check(a) => run_check(a, out),
-        Command::Delta(a) => run_delta(a, out),
-        Command::Inspect(a) => run_inspect(a, out),
-        Command::Profiles(a) => run_profiles(a, out),
-        Command::Proof(a) => super::proof::run_proof(a, out),
-        Command::Gamut(a) => super::gamut::run_gamut(a, out),
-        Command::Plot(a) => super::plot::run_plot(a),
-        Command::Repair(a) => super::repair::run_repair(a, out),
-        Command::BuildPress(a) => run_build_press(a),
-    }
-}
-
-fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
+pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if !(a.tolerance.is_finite() && a.tolerance >= 0.0) {
         return Err(format!("--tolerance must be a ΔE00 of 0 or more, not {}", a.tolerance).into());
     }
@@ -99,8 +38,8 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         format!("checking {} colours against {}", palette.entries.len(), press.name),
     );
     let press_gamut = match a.gamut_test {
-        super::GamutTestArg::Boundary => Some(crate::gamut::Gamut::of_profile(&press, Default::default())?),
-        super::GamutTestArg::RoundTrip => None,
+        GamutTestArg::Boundary => Some(crate::gamut::Gamut::of_profile(&press, Default::default())?),
+        GamutTestArg::RoundTrip => None,
     };
     // The press's ink limit: the one its gamut was computed with, or the
     // same measurement of its CIELAB → CMYK table.
@@ -131,7 +70,7 @@ fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     super::repair::finish_check(&r, &s, a.json, a.strict, use_color(), out)
 }
 
-fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
+pub(super) fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     let ca = parse_color(&a.a)?;
     let cb = parse_color(&a.b)?;
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
@@ -169,36 +108,5 @@ fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     } else {
         report::render_delta(out, &r)?;
     }
-    Ok(Outcome::Done)
-}
-
-fn run_inspect(a: InspectArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
-    let p = IccProfile::load(&a.profile)?;
-    let r = inspect::inspect(&p);
-    if a.json {
-        report::write_json(out, &r)?;
-    } else {
-        report::render_inspect(out, &r)?;
-    }
-    Ok(Outcome::Done)
-}
-
-fn run_profiles(a: ProfilesArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
-    if a.json {
-        report::write_json(out, &builtin::BUILTINS)?;
-    } else {
-        report::render_profiles(out, builtin::BUILTINS)?;
-    }
-    Ok(Outcome::Done)
-}
-
-fn run_build_press(a: BuildPressArgs) -> Result<Outcome, Error> {
-    let cond =
-        crate::press::builtin_press(&a.name).ok_or_else(|| format!("no built-in press condition '{}'", a.name))?;
-    let mut outputs = Outputs::new();
-    outputs.claim(&a.out)?;
-    let bytes = crate::press::build_icc(&cond)?;
-    outputs.stage_bytes(&a.out, &bytes)?;
-    outputs.commit()?;
     Ok(Outcome::Done)
 }
