@@ -45,6 +45,7 @@ pub mod gamut;
 pub mod icc;
 pub mod io;
 pub mod plot;
+pub mod precision;
 pub mod press;
 pub mod proof;
 pub mod report;

@@ -8,13 +8,10 @@ use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
 use crate::gamut::InkLimit;
 use crate::icc::transform::resolve_lab;
 use crate::icc::IccProfile;
+use crate::precision::round;
 use crate::report::{self, DeltaColor, DeltaReport};
 use crate::swatch::check::{check_against, CheckOptions};
 use crate::swatch::Palette;
-
-fn round4(v: f64) -> f64 {
-    (v * 1e4).round() / 1e4
-}
 
 pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if !(a.tolerance.is_finite() && a.tolerance >= 0.0) {
@@ -92,16 +89,16 @@ pub(super) fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Er
     let r = DeltaReport {
         a: DeltaColor {
             input: a.a.clone(),
-            lab: la.to_array().map(round4),
+            lab: la.to_array().map(|v| round(v, 4)),
         },
         b: DeltaColor {
             input: a.b.clone(),
-            lab: lb.to_array().map(round4),
+            lab: lb.to_array().map(|v| round(v, 4)),
         },
-        de76: round4(delta_e76(la, lb)),
-        de94: round4(delta_e94(la, lb)),
-        de00: round4(delta_e00(la, lb)),
-        cmc: round4(delta_e_cmc(la, lb, 2.0, 1.0)),
+        de76: round(delta_e76(la, lb), 4),
+        de94: round(delta_e94(la, lb), 4),
+        de00: round(delta_e00(la, lb), 4),
+        cmc: round(delta_e_cmc(la, lb, 2.0, 1.0), 4),
     };
     if a.json {
         report::write_json(out, &r)?;

@@ -25,13 +25,14 @@ use clap::Args;
 
 use super::{Error, Outcome};
 use super::{IntentArg, ProfileArgs};
+use crate::color::delta::NOTICEABLE_DE00;
 use crate::icc::transform::PressMapping;
 use crate::icc::{Direction, IccError, IccProfile, Origin};
 use crate::io::Outputs;
 use crate::proof::heat::HeatScale;
 use crate::proof::raster::{self, DecodeLimits, FileKind, Raster, RasterError, RasterInfo, RgbImage};
 use crate::proof::report::{self, ImageReport, ProfileSource, ProofReport};
-use crate::proof::{check_embedded, Method, ProofEngine, ROUND_TRIP_THRESHOLD};
+use crate::proof::{check_embedded, Method, ProofEngine};
 use crate::swatch::check::DEFAULT_TOLERANCE;
 
 #[derive(Args, Debug)]
@@ -423,7 +424,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         paper_white: mapping.paper_white,
         tolerance: a.tolerance,
         gamut_test: format!(
-            "round trip CIELAB → press → CIELAB (relative colorimetric, no BPC) within ΔE00 {ROUND_TRIP_THRESHOLD:.1}"
+            "round trip CIELAB → press → CIELAB (relative colorimetric, no BPC) within ΔE00 {NOTICEABLE_DE00:.1}"
         ),
         notes,
         images,

@@ -1,7 +1,7 @@
 //! `inkfit repair` and the palette-survival options shared with
 //! `inkfit check` (scheme, separation floor, minimum step, deficiencies).
 
-use crate::report::fixed;
+use crate::precision::fixed;
 use std::io::Write;
 use std::path::PathBuf;
 

@@ -6,6 +6,15 @@
 
 use super::LabD50;
 
+/// The edge of a noticeable difference, 1 ΔE00: about one just-noticeable
+/// difference for side-by-side viewing (common practice). The one threshold
+/// behind "printable": a colour within it of the press gamut's boundary
+/// (`gamut`), or whose round trip CIELAB → press → CIELAB returns within it
+/// (`swatch::check`, `proof`), and the press tables' gamut tag
+/// (`press::icc_writer`). It lies above the boundary test's voxel
+/// discretisation (half a voxel of 1 ΔE*ab) and the 16-bit table quantisation.
+pub const NOTICEABLE_DE00: f64 = 1.0;
+
 /// CIE 1976 ΔE*ab: the Euclidean distance in CIELAB (CIE 015:2018, 8.2.4).
 pub fn delta_e76(a: LabD50, b: LabD50) -> f64 {
     let dl = a.l - b.l;

@@ -7,6 +7,7 @@
 //! right-handed, +Y up). Output is deterministic: fixed precision in PLY,
 //! little-endian f32/u32 in glTF buffers.
 
+use crate::precision::fixed;
 use std::io::{self, Write};
 use std::path::Path;
 
@@ -101,22 +102,12 @@ pub fn write_ply(w: &mut dyn Write, mesh: &Mesh, title: &str) -> io::Result<()> 
     for (p, c) in mesh.vertices.iter().zip(&colours) {
         let [x, y, z] = axes(*p);
         let [r, g, b] = c.map(|v| (v * 255.0).round() as u8);
-        writeln!(w, "{} {} {} {r} {g} {b}", fixed(x), fixed(y), fixed(z))?;
+        writeln!(w, "{} {} {} {r} {g} {b}", fixed(x, 4), fixed(y, 4), fixed(z, 4))?;
     }
     for t in &mesh.triangles {
         writeln!(w, "3 {} {} {}", t[0], t[1], t[2])?;
     }
     Ok(())
-}
-
-/// Four decimals; negative zero printed as 0.
-fn fixed(v: f64) -> String {
-    let s = format!("{v:.4}");
-    if s.trim_start_matches('-').chars().all(|c| c == '0' || c == '.') {
-        "0.0000".to_string()
-    } else {
-        s
-    }
 }
 
 /// The glTF document (JSON) and its binary buffer for `mesh`.

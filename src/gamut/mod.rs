@@ -682,22 +682,16 @@ pub fn coverage_all(gamuts: &[Gamut], voxel: f64) -> Result<Vec<Coverage>, Gamut
 pub enum GamutTest {
     /// CIELAB → press → CIELAB returns within a ΔE00 threshold.
     RoundTrip,
-    /// Inside the press gamut's boundary, or within [`EDGE_TOLERANCE`] of it.
+    /// Inside the press gamut's boundary, or within [`NOTICEABLE_DE00`](crate::color::delta::NOTICEABLE_DE00) of it.
     Boundary,
 }
 
-/// A colour this close (ΔE00) to the boundary counts as printable: about one
-/// just-noticeable difference (common practice), the same threshold the
-/// round-trip test uses, and above the voxel grid's discretisation
-/// (half a voxel of 1 ΔE*ab).
-pub const EDGE_TOLERANCE: f64 = 1.0;
-
 impl Gamut {
     /// The boundary test behind `inkfit check`: the distance to the gamut in
-    /// CIEDE2000 (0 inside) and whether it is within [`EDGE_TOLERANCE`].
+    /// CIEDE2000 (0 inside) and whether it is within [`NOTICEABLE_DE00`](crate::color::delta::NOTICEABLE_DE00).
     pub fn judge(&self, lab: LabD50) -> (bool, f64) {
         let d = self.outside_by(lab);
-        (d <= EDGE_TOLERANCE, d)
+        (d <= crate::color::delta::NOTICEABLE_DE00, d)
     }
 }
 

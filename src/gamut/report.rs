@@ -2,7 +2,7 @@
 //! its text rendering: one table of profiles, one of the largest chroma per
 //! hue sector, and the coverage of every pair as a table and in words.
 
-use crate::report::round;
+use crate::precision::round;
 use std::io::{self, Write};
 
 use serde::Serialize;

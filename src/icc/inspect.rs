@@ -198,11 +198,7 @@ fn xy_of(v: [f64; 3]) -> [f64; 2] {
     let c = Xyz::new(v[0], v[1], v[2])
         .chromaticity()
         .unwrap_or(Xy { x: 0.0, y: 0.0 });
-    [round6(c.x), round6(c.y)]
-}
-
-fn round6(v: f64) -> f64 {
-    (v * 1e6).round() / 1e6
+    [crate::precision::round(c.x, 6), crate::precision::round(c.y, 6)]
 }
 
 fn primaries(p: &IccProfile) -> Option<Primaries> {

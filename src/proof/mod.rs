@@ -23,7 +23,7 @@
 //!
 //! The gamut test is the one [`crate::swatch::check`] uses: the round trip
 //! CIELAB → press → CIELAB (relative colorimetric, no BPC) returns within
-//! [`ROUND_TRIP_THRESHOLD`] ΔE00.
+//! [`NOTICEABLE_DE00`] ΔE00.
 //!
 //! # CMYK images
 //!
@@ -52,11 +52,11 @@ use lcms2::{DisallowCache, Flags, GlobalContext, PixelFormat, Transform};
 use rayon::prelude::*;
 
 use crate::color::delta::delta_e00;
+use crate::color::delta::NOTICEABLE_DE00;
 use crate::color::LabD50;
 use crate::icc::header::{CLASS_OUTPUT, SPACE_CMYK, SPACE_GRAY, SPACE_LAB, SPACE_RGB, SPACE_XYZ};
 use crate::icc::transform::{lab_d50_profile, PressMapping};
 use crate::icc::{IccError, IccProfile, RenderingIntent};
-pub use crate::swatch::check::ROUND_TRIP_THRESHOLD;
 use heat::HeatScale;
 use raster::Raster;
 use stats::{bin_of, Tally};
@@ -831,7 +831,7 @@ impl ProofEngine {
         t: &mut Tally,
     ) {
         let max = if BPS == 1 { 255.0 } else { 65535.0 };
-        let limit = ROUND_TRIP_THRESHOLD as f32;
+        let limit = NOTICEABLE_DE00 as f32;
         let mut prev_key = u64::MAX;
         let (mut de, mut bin, mut outside, mut rgb) = (0f32, 0usize, false, [0u8; 3]);
         for (i, px) in src.chunks_exact(CH * BPS).enumerate() {
@@ -884,7 +884,7 @@ fn map_chunks(map: Option<&mut [u8]>, count: usize) -> Vec<Option<&mut [u8]>> {
 }
 
 fn accumulate(v: &[[f32; 2]], mut map: Option<&mut [u8]>, heat: Option<&HeatScale>, t: &mut Tally) {
-    let limit = ROUND_TRIP_THRESHOLD as f32;
+    let limit = NOTICEABLE_DE00 as f32;
     for (i, d) in v.iter().enumerate() {
         t.add(d[0], d[1] > limit);
         if let (Some(m), Some(h)) = (map.as_deref_mut(), heat) {

@@ -52,7 +52,7 @@ pub struct ProofReport {
     pub images: Vec<ImageReport>,
 }
 
-use crate::report::fixed as f;
+use crate::precision::fixed as f;
 
 fn pct(share: f64) -> String {
     format!("{:.1}", share * 100.0)

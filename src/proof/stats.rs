@@ -133,7 +133,7 @@ impl Tally {
     }
 }
 
-use crate::report::round;
+use crate::precision::round;
 
 /// Shares (0..1) of pixels with ΔE00 above 1, 2, 3, 5 and 10.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]

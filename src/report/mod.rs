@@ -9,37 +9,17 @@ use std::io::{self, Write};
 
 use serde::Serialize;
 
+use crate::precision::fixed;
+
 use crate::icc::builtin::BuiltinInfo;
 use crate::icc::inspect::{ProfileReport, TableReport};
 use crate::swatch::check::{CheckReport, InkLimitSource};
 use table::{Align, Table, Tone};
 
-/// `v` rounded to `places` decimals, with negative zero made positive: the
-/// fixed precision every result struct stores.
-pub fn round(v: f64, places: i32) -> f64 {
-    let f = 10f64.powi(places);
-    let r = (v * f).round() / f;
-    if r == 0.0 {
-        0.0
-    } else {
-        r
-    }
-}
-
 /// Pretty JSON with a final newline.
 pub fn write_json<T: Serialize>(w: &mut dyn Write, value: &T) -> io::Result<()> {
     serde_json::to_writer_pretty(&mut *w, value)?;
     writeln!(w)
-}
-
-/// Fixed-precision text; a value that rounds to zero prints without a sign.
-pub fn fixed(v: f64, places: usize) -> String {
-    let s = format!("{v:.places$}");
-    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
-        s[1..].to_string()
-    } else {
-        s
-    }
 }
 
 /// CIELAB as three fixed-width numbers of one decimal, for tables.

@@ -3,7 +3,8 @@
 //! printed, CIEDE2000 between the two, whether the colour is printable and
 //! whether its CMYK needs more ink than the press allows.
 
-use crate::report::round;
+use crate::color::delta::NOTICEABLE_DE00;
+use crate::precision::{round, round_all};
 use rayon::prelude::*;
 use serde::Serialize;
 
@@ -14,12 +15,6 @@ use crate::color::LabD50;
 use crate::gamut::InkLimit;
 use crate::icc::transform::{PressMapping, PressTransforms};
 use crate::icc::{Direction, IccError, IccProfile, RenderingIntent};
-
-/// The round-trip in-gamut test: a colour is printable when CIELAB → press →
-/// CIELAB (relative colorimetric, no BPC) returns within this CIEDE2000.
-/// 1.0 is about a just-noticeable difference for side-by-side viewing
-/// (common practice), and well above the 16-bit table quantisation.
-pub const ROUND_TRIP_THRESHOLD: f64 = 1.0;
 
 /// Default tolerance: ΔE00 3.0, a rule of thumb for "visibly different but
 /// acceptable" in design review (common practice), not a standard.
@@ -158,10 +153,6 @@ pub struct CheckReport {
     pub summary: CheckSummary,
 }
 
-fn round_all<const N: usize>(v: [f64; N], places: i32) -> [f64; N] {
-    v.map(|x| round(x, places))
-}
-
 /// Runs the check of `palette` from `screen` onto `press` with the
 /// round-trip gamut test.
 pub fn check(
@@ -260,7 +251,7 @@ pub fn check_against(
         };
         let (in_gamut, outside_by) = match &judged {
             Some(j) => (j[i].0 && press_printable(i), Some(j[i].1)),
-            None => (rt <= ROUND_TRIP_THRESHOLD && press_printable(i), None),
+            None => (rt <= NOTICEABLE_DE00 && press_printable(i), None),
         };
         let finite = |v: &[f64]| v.iter().all(|x| x.is_finite());
         let not_finite = [
@@ -313,10 +304,10 @@ pub fn check_against(
                 g.ink_limit
                     .map(|l| format!(" (total ink {:.1} %)", l.percent))
                     .unwrap_or_default(),
-                crate::gamut::EDGE_TOLERANCE
+                NOTICEABLE_DE00
             ),
             None => format!(
-                "round trip CIELAB → press → CIELAB (relative colorimetric, no BPC) within ΔE00 {ROUND_TRIP_THRESHOLD:.1}"
+                "round trip CIELAB → press → CIELAB (relative colorimetric, no BPC) within ΔE00 {NOTICEABLE_DE00:.1}"
             ),
         },
         notes: notes(screen, press, opts.mapping),

@@ -17,9 +17,9 @@
 
 use serde::Serialize;
 
-use super::separation::round2;
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
+use crate::precision::round;
 
 /// Default smallest acceptable step between neighbours of an ordered
 /// scheme, ΔE00 5: a rule of thumb (common practice) for steps read against
@@ -143,7 +143,7 @@ pub fn direction(arm: &[usize], screen: &[LabD50]) -> f64 {
 fn unevenness(steps: &[f64]) -> Option<f64> {
     let max = steps.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     let min = steps.iter().copied().fold(f64::INFINITY, f64::min);
-    (!steps.is_empty() && min > 0.0).then(|| round2(max / min))
+    (!steps.is_empty() && min > 0.0).then(|| round(max / min, 2))
 }
 
 /// The order analysis, or `None` for a qualitative scheme.
@@ -175,10 +175,10 @@ pub fn order(scheme: Scheme, screen: &[LabD50], print: &[LabD50], min_step: f64)
                 arm: name,
                 from: i + 1,
                 to: j + 1,
-                screen: round2(s),
-                print: round2(p),
-                screen_dl: round2(sdl),
-                print_dl: round2(pdl),
+                screen: round(s, 2),
+                print: round(p, 2),
+                screen_dl: round(sdl, 2),
+                print_dl: round(pdl, 2),
                 reverses_screen: d * sdl <= 0.0,
                 reverses_print: d * pdl <= 0.0,
                 too_small_screen: s < min_step,
@@ -195,15 +195,15 @@ pub fn order(scheme: Scheme, screen: &[LabD50], print: &[LabD50], min_step: f64)
         let st: Vec<SymmetryStep> = (0..k)
             .map(|s| SymmetryStep {
                 step: s + 1,
-                low: round2(lo[s]),
-                high: round2(hi[s]),
-                difference: round2((lo[s] - hi[s]).abs()),
+                low: round(lo[s], 2),
+                high: round(hi[s], 2),
+                difference: round((lo[s] - hi[s]).abs(), 2),
             })
             .collect();
         Symmetry {
             max_difference: st.iter().map(|s| s.difference).fold(0.0, f64::max),
-            low_total: round2(lo[..k].iter().sum()),
-            high_total: round2(hi[..k].iter().sum()),
+            low_total: round(lo[..k].iter().sum(), 2),
+            high_total: round(hi[..k].iter().sum(), 2),
             steps: st,
         }
     });

@@ -41,6 +41,7 @@ use crate::color::LabD50;
 use crate::gamut::Gamut;
 use crate::icc::transform::{lab_d50_profile, PressMapping, PressTransforms};
 use crate::icc::{IccError, IccProfile, RenderingIntent};
+use crate::precision::round;
 
 /// Extra room kept above each floor, in ΔE00 (or L* for the order terms).
 pub const MARGIN: f64 = 0.5;
@@ -107,15 +108,6 @@ pub struct RepairReport {
 impl RepairReport {
     pub fn all_met(&self) -> bool {
         self.unmet.is_empty()
-    }
-}
-
-fn r2(v: f64) -> f64 {
-    let r = (v * 100.0).round() / 100.0;
-    if r == 0.0 {
-        0.0
-    } else {
-        r
     }
 }
 
@@ -455,10 +447,10 @@ pub fn repair(
             original: orig.input.clone(),
             repaired: rep.input.clone(),
             changed: orig.input != rep.input,
-            moved: r2(delta_e00(
-                LabD50::from_array(b.screen_lab),
-                LabD50::from_array(a.screen_lab),
-            )),
+            moved: round(
+                delta_e00(LabD50::from_array(b.screen_lab), LabD50::from_array(a.screen_lab)),
+                2,
+            ),
             original_screen_lab: b.screen_lab,
             repaired_screen_lab: a.screen_lab,
             press_cmyk: a.press_cmyk,

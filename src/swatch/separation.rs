@@ -8,6 +8,7 @@
 //! [`crate::color::delta::delta_e00`]) on CIELAB D50; values are rounded to
 //! 2 decimals in the result.
 
+use crate::precision::round;
 use serde::Serialize;
 
 use crate::color::delta::delta_e00;
@@ -61,15 +62,6 @@ pub struct Separation {
     pub flagged: Vec<FlaggedPair>,
 }
 
-pub(crate) fn round2(v: f64) -> f64 {
-    let r = (v * 100.0).round() / 100.0;
-    if r == 0.0 {
-        0.0
-    } else {
-        r
-    }
-}
-
 /// Whether a pair with these differences is flagged: `(below_floor, lost_half)`.
 pub fn pair_flags(screen: f64, print: f64, floor: f64) -> (bool, bool) {
     (print < floor, print < 0.5 * screen)
@@ -99,8 +91,8 @@ pub fn separation(names: &[String], screen: &[LabD50], print: &[LabD50], min_sep
             let pair = Pair {
                 a: i + 1,
                 b: j + 1,
-                screen: round2(s),
-                print: round2(p),
+                screen: round(s, 2),
+                print: round(p, 2),
             };
             if below_floor || lost_half {
                 flagged.push(FlaggedPair {
@@ -125,8 +117,8 @@ pub fn separation(names: &[String], screen: &[LabD50], print: &[LabD50], min_sep
     flagged.sort_by(|x, y| x.print.total_cmp(&y.print).then((x.a, x.b).cmp(&(y.a, y.b))));
     Separation {
         min_separation,
-        min_screen: min_s.map_or(0.0, |(v, _)| round2(v)),
-        min_print: min_p.map_or(0.0, |(v, _)| round2(v)),
+        min_screen: min_s.map_or(0.0, |(v, _)| round(v, 2)),
+        min_print: min_p.map_or(0.0, |(v, _)| round(v, 2)),
         min_screen_pair: min_s.map(|(_, p)| p),
         min_print_pair: min_p.map(|(_, p)| p),
         pairs_listed: if list_all { "all" } else { "flagged" },

@@ -6,9 +6,10 @@ use serde::Serialize;
 
 use super::check::CheckReport;
 use super::order::{order, Order, Scheme};
-use super::separation::{round2, separation, FlaggedPair, Separation};
+use super::separation::{separation, FlaggedPair, Separation};
 use crate::color::cvd::{Deficiency, Simulator};
 use crate::color::LabD50;
+use crate::precision::round;
 
 /// What to check beyond the per-colour results.
 #[derive(Clone, Debug, PartialEq)]
@@ -168,7 +169,7 @@ pub fn cvd_separation(sim: &Simulator, names: &[String], screen: &[LabD50], prin
     let sep = separation(names, &s, &p, floor);
     CvdResult {
         severity: sim.severity,
-        simulated_lab: p.iter().map(|l| l.to_array().map(round2)).collect(),
+        simulated_lab: p.iter().map(|l| l.to_array().map(|v| round(v, 2))).collect(),
         min_screen: sep.min_screen,
         min_print: sep.min_print,
         flagged: sep.flagged,
@@ -304,7 +305,7 @@ fn colour_finding(
 
 /// The verdict over a check and its palette analysis.
 pub fn verdict(r: &CheckReport, s: &Survival) -> Verdict {
-    let tolerance = format!("beyond ΔE00 {}", crate::report::fixed(r.tolerance, 1));
+    let tolerance = format!("beyond ΔE00 {}", crate::precision::fixed(r.tolerance, 1));
     let mut reasons: Vec<Finding> = [
         colour_finding(
             CheckKind::Tolerance,
@@ -322,7 +323,7 @@ pub fn verdict(r: &CheckReport, s: &Survival) -> Verdict {
                 CheckKind::InkLimit,
                 r,
                 |e| e.over_ink_limit,
-                &format!("over the press's {} % ink limit", crate::report::fixed(l.percent, 1)),
+                &format!("over the press's {} % ink limit", crate::precision::fixed(l.percent, 1)),
             )
         }),
     ]
