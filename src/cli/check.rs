@@ -14,9 +14,7 @@ use crate::swatch::check::{check_against, CheckOptions};
 use crate::swatch::Palette;
 
 pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
-    if !(a.tolerance.is_finite() && a.tolerance >= 0.0) {
-        return Err(format!("--tolerance must be a ΔE00 of 0 or more, not {}", a.tolerance).into());
-    }
+    super::check_tolerance(a.tolerance)?;
     // The plan: everything is read and checked before any output.
     let survival = a.survival.options()?;
     if let Some(p) = &a.svg {

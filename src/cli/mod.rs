@@ -229,6 +229,15 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<Outcome, Error> {
     }
 }
 
+/// `--tolerance` must be a finite ΔE00 of 0 or more.
+pub(super) fn check_tolerance(tolerance: f64) -> Result<(), Error> {
+    if tolerance.is_finite() && tolerance >= 0.0 {
+        Ok(())
+    } else {
+        Err(format!("--tolerance must be a ΔE00 of 0 or more, not {tolerance}").into())
+    }
+}
+
 /// Colour in tables: stdout is a terminal and NO_COLOR is unset or empty.
 pub(super) fn use_color() -> bool {
     std::io::stdout().is_terminal() && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())

@@ -245,9 +245,7 @@ struct Job {
 }
 
 pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
-    if !(a.tolerance.is_finite() && a.tolerance >= 0.0) {
-        return Err(format!("--tolerance must be a ΔE00 of 0 or more, not {}", a.tolerance).into());
-    }
+    super::check_tolerance(a.tolerance)?;
     let limits = DecodeLimits::from_megapixels(a.max_pixels).ok_or_else(|| {
         format!(
             "--max-pixels must be a number of megapixels above 0, not {}",

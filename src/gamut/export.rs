@@ -7,6 +7,7 @@
 //! right-handed, +Y up). Output is deterministic: fixed precision in PLY,
 //! little-endian f32/u32 in glTF buffers.
 
+use crate::color::spaces::srgb_to_linear;
 use crate::precision::fixed;
 use std::io::{self, Write};
 use std::path::Path;
@@ -59,15 +60,6 @@ pub fn srgb_colours(vertices: &[[f64; 3]]) -> Vec<[f64; 3]> {
     out.into_iter()
         .map(|c| c.map(|v| if v.is_finite() { v.clamp(0.0, 1.0) } else { 0.0 }))
         .collect()
-}
-
-/// sRGB decoding (IEC 61966-2-1): encoded 0..1 → linear 0..1.
-fn srgb_to_linear(v: f64) -> f64 {
-    if v <= 0.04045 {
-        v / 12.92
-    } else {
-        ((v + 0.055) / 1.055).powf(2.4)
-    }
 }
 
 /// CIELAB [L*, a*, b*] → [a*, L*, −b*].
