@@ -201,6 +201,20 @@ impl Tag<'_> {
         self.data.get(0..4).map(|b| Signature([b[0], b[1], b[2], b[3]]))
     }
 
+    /// The tag is of type `sig`, else a wrong-type error naming `allowed`
+    /// and the clause that requires it.
+    fn require_type(&self, sig: [u8; 4], allowed: &'static str, clause: &'static str) -> Result<(), TagError> {
+        match self.type_sig() {
+            Some(found) if found == Signature(sig) => Ok(()),
+            found => Err(TagError::WrongType {
+                tag: self.sig,
+                found: found.unwrap_or(Signature(*b"    ")),
+                allowed,
+                clause,
+            }),
+        }
+    }
+
     fn structure(&self, detail: impl Into<String>) -> TagError {
         TagError::Structure {
             tag: self.sig,
@@ -563,14 +577,7 @@ fn curve(tag: Tag, at: u64, part: &str) -> Result<u64, TagError> {
 fn multi_process(tag: Tag, header: &Header, flow: Flow) -> Result<(), TagError> {
     // ICC.1:2010, 9.2.9–9.2.12 and 9.2.24–9.2.27 (BToDn, DToBn):
     // multiProcessElementsType.
-    if tag.type_sig() != Some(Signature(*b"mpet")) {
-        return Err(TagError::WrongType {
-            tag: tag.sig,
-            found: tag.type_sig().unwrap_or(Signature(*b"    ")),
-            allowed: "multiProcessElements",
-            clause: "ICC.1:2010, 9.2.24",
-        });
-    }
+    tag.require_type(*b"mpet", "multiProcessElements", "ICC.1:2010, 9.2.24")?;
     tag.need("a multiProcessElements table", 16)?;
     let d = tag.data;
     let (inputs, outputs) = (usize::from(be_u16(d, 8)), usize::from(be_u16(d, 10)));
@@ -624,14 +631,7 @@ fn multi_process(tag: Tag, header: &Header, flow: Flow) -> Result<(), TagError> 
 /// An XYZType tag (ICC.1:2010, 10.29) of one number, each component in
 /// `lo…XYZ_LIMIT`.
 fn xyz(tag: Tag, lo: f64) -> Result<(), TagError> {
-    if tag.type_sig() != Some(Signature(*b"XYZ ")) {
-        return Err(TagError::WrongType {
-            tag: tag.sig,
-            found: tag.type_sig().unwrap_or(Signature(*b"    ")),
-            allowed: "XYZType",
-            clause: "ICC.1:2010, 10.29",
-        });
-    }
+    tag.require_type(*b"XYZ ", "XYZType", "ICC.1:2010, 10.29")?;
     tag.need("an XYZ number", 20)?;
     for (i, c) in ["X", "Y", "Z"].iter().enumerate() {
         let v = s15f16(tag.data, 8 + 4 * i);
@@ -653,14 +653,7 @@ fn xyz(tag: Tag, lo: f64) -> Result<(), TagError> {
 /// (10.20) of nine numbers. An adaptation between real illuminants has
 /// coefficients near the identity's; each within ±XYZ_LIMIT.
 fn adaptation_matrix(tag: Tag) -> Result<(), TagError> {
-    if tag.type_sig() != Some(Signature(*b"sf32")) {
-        return Err(TagError::WrongType {
-            tag: tag.sig,
-            found: tag.type_sig().unwrap_or(Signature(*b"    ")),
-            allowed: "s15Fixed16ArrayType",
-            clause: "ICC.1:2010, 9.2.15",
-        });
-    }
+    tag.require_type(*b"sf32", "s15Fixed16ArrayType", "ICC.1:2010, 9.2.15")?;
     tag.need("a 3 × 3 matrix", 8 + 36)?;
     for i in 0..9 {
         let v = s15f16(tag.data, 8 + 4 * i);
