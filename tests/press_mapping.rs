@@ -6,11 +6,12 @@
 
 use inkfit::color::spaces::{css_rgb_to_lab_d50, hsl_to_srgb, lab_d50_to_oklab, CssRgbSpace};
 use inkfit::color::LabD50;
-use inkfit::press::invert::GcrCurve;
+use inkfit::icc::builtin::OFFSET_COATED_ICC;
 use inkfit::press::mapping::{
     nearest_weighted, press_boundary_samples, Mapper, Method, RELATIVE_LIGHTNESS_WEIGHT, SGCK_KNEE,
 };
-use inkfit::press::{offset_coated, OFFSET_COATED_ICC};
+use inkfit::press::offset_coated;
+use inkfit::press::spec::GcrCurve;
 use lcms2::{CIExyY, Flags, GlobalContext, Intent, PixelFormat, Profile, Transform};
 use std::sync::OnceLock;
 

@@ -3,10 +3,22 @@
 //! reproducibility of the committed bytes and the tag structure.
 
 use deltae::{DEMethod, DeltaE, LabValue};
-use inkfit::press::icc_read::{read_clut, read_tag_table};
+use inkfit::icc::builtin::OFFSET_COATED_ICC;
+use inkfit::icc::header::{read_clut, ClutTable, Header, TagEntry};
 use inkfit::press::icc_writer::{ab_curve_inverse, B2A_GRID};
-use inkfit::press::{build_icc, builtin_press, offset_coated, BUILTIN_PRESS_NAMES, OFFSET_COATED_ICC};
+use inkfit::press::{build_icc, builtin_press, offset_coated, BUILTIN_PRESS_NAMES};
 use lcms2::{CIExyY, Flags, GlobalContext, Intent, PixelFormat, Profile, Tag, TagSignature, Transform};
+
+/// The tag table of a profile, read by the library's strict header reader.
+fn tag_table(bytes: &[u8]) -> Vec<TagEntry> {
+    Header::parse(bytes).expect("header and tag table").tags
+}
+
+/// The CLUT of tag `sig` of the committed profile.
+fn committed_clut(sig: &[u8; 4]) -> ClutTable {
+    let header = Header::parse(OFFSET_COATED_ICC).expect("header");
+    read_clut(OFFSET_COATED_ICC, header.tag(sig).expect("tag present")).expect("a CLUT")
+}
 
 /// ICC PCS illuminant D50 (ICC.1:2010, 7.2.16) as chromaticity, Y = 1.
 fn d50_xyy() -> CIExyY {
@@ -120,7 +132,7 @@ fn every_b2a_node_respects_the_ink_limit() {
     // TAC 330 % (common practice for coated sheet-fed offset), checked on
     // every stored node of each intent's B2A table as written in the file.
     for sig in [b"B2A0", b"B2A1", b"B2A2"] {
-        let clut = read_clut(OFFSET_COATED_ICC, sig).expect("B2A CLUT");
+        let clut = committed_clut(sig);
         assert_eq!(clut.grid, B2A_GRID.map(|g| g as u8).to_vec());
         assert_eq!(clut.outputs, 4);
         let max = clut
@@ -138,7 +150,7 @@ fn every_b2a_node_respects_the_ink_limit() {
     // PCS code of a node goes through the input curves first, and the 16-bit
     // path is not bit-exact at the nodes (a few codes); a misread layout
     // would be off by thousands.
-    let clut = read_clut(OFFSET_COATED_ICC, b"B2A1").expect("B2A1 CLUT");
+    let clut = committed_clut(b"B2A1");
     let t: Transform<[u16; 3], [u16; 4]> = Transform::new_flags(
         &lab4(),
         PixelFormat::Lab_16,
@@ -240,8 +252,8 @@ fn rebuild_matches_the_committed_profile() {
     }
     assert_eq!(rebuilt.len(), OFFSET_COATED_ICC.len(), "size differs");
     assert_eq!(&rebuilt[..84], &OFFSET_COATED_ICC[..84], "header differs");
-    let tags = read_tag_table(&rebuilt).expect("tags");
-    assert_eq!(tags, read_tag_table(OFFSET_COATED_ICC).expect("tags"));
+    let tags = tag_table(&rebuilt);
+    assert_eq!(tags, tag_table(OFFSET_COATED_ICC));
     let start = 132 + 12 * tags.len();
     let mut differing = 0;
     for (a, b) in rebuilt[start..]
@@ -276,8 +288,8 @@ fn profile_structure() {
     assert!(OFFSET_COATED_ICC[84..100].iter().any(|b| *b != 0));
     // The device → PCS direction is colorimetric for every intent (links);
     // each intent has a PCS → device table of its own.
-    let tags = read_tag_table(OFFSET_COATED_ICC).expect("tags");
-    let find = |s: &[u8; 4]| tags.iter().find(|t| &t.signature == s).copied().expect("tag present");
+    let tags = tag_table(OFFSET_COATED_ICC);
+    let find = |s: &[u8; 4]| tags.iter().find(|t| &t.sig.0 == s).copied().expect("tag present");
     for (link, target) in [(b"A2B0", b"A2B1"), (b"A2B2", b"A2B1")] {
         assert_eq!(
             (find(link).offset, find(link).size),
@@ -322,7 +334,7 @@ fn profile_structure() {
 fn gamut_tag_marks_in_and_out_of_gamut() {
     // A colour printed with ≤ 330 % ink is inside (0); a far-off Lab node
     // (L* 100, a* −128, b* 127) is outside (non-zero), ICC.1:2010 9.2.28.
-    let clut = read_clut(OFFSET_COATED_ICC, b"gamt").expect("gamt CLUT");
+    let clut = committed_clut(b"gamt");
     assert_eq!(clut.outputs, 1);
     let [_, na, nb] = B2A_GRID.map(|g| g as usize);
     let node = |l: usize, a: usize, b: usize| clut.values[(l * na + a) * nb + b];

@@ -585,7 +585,7 @@ const INKS: [[u8; 4]; 8] = [
 
 fn lcms_cmyk_to_srgb8(px: &[[u8; 4]], intent: lcms2::Intent) -> Vec<u8> {
     // lcms2's own plain transform (cmsCreateTransform, no BPC), built here.
-    let press = lcms2::Profile::new_icc(inkfit::press::OFFSET_COATED_ICC).unwrap();
+    let press = lcms2::Profile::new_icc(inkfit::icc::builtin::OFFSET_COATED_ICC).unwrap();
     let srgb = builtin("srgb").lcms;
     let t: lcms2::Transform<[u8; 4], [u8; 3]> = lcms2::Transform::new(
         &press,
@@ -609,7 +609,7 @@ fn cmyk_tiff_proofs_as_lcms2_press_to_screen() {
         4,
         2,
         &INKS.concat(),
-        Some(inkfit::press::OFFSET_COATED_ICC),
+        Some(inkfit::icc::builtin::OFFSET_COATED_ICC),
     );
     for (paper_white, intent) in [
         (false, lcms2::Intent::RelativeColorimetric),
@@ -672,7 +672,7 @@ fn sixteen_bit_cmyk_tiff_matches_lcms2_sixteen_bit_transform() {
         .map(|c| u16::from_ne_bytes([c[0], c[1]]))
         .collect();
     // Reference: lcms2's 16-bit CMYK → sRGB transform, relative colorimetric.
-    let press = lcms2::Profile::new_icc(inkfit::press::OFFSET_COATED_ICC).unwrap();
+    let press = lcms2::Profile::new_icc(inkfit::icc::builtin::OFFSET_COATED_ICC).unwrap();
     let t: lcms2::Transform<[u16; 4], [u16; 3]> = lcms2::Transform::new(
         &press,
         lcms2::PixelFormat::CMYK_16,

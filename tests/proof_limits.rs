@@ -373,7 +373,7 @@ fn small_tiffs_keep_their_embedded_profiles_under_the_limits() {
     assert_eq!(r.info.icc.as_deref(), Some(&p3[..]));
     assert_eq!(r.color, vec![9, 8, 7]);
 
-    let press = inkfit::press::OFFSET_COATED_ICC;
+    let press = inkfit::icc::builtin::OFFSET_COATED_ICC;
     let cmyk = dir.path().join("cmyk.tif");
     let mut b = Vec::new();
     {

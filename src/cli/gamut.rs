@@ -7,7 +7,7 @@ use std::path::{Path, PathBuf};
 use super::GamutArgs;
 use super::{Error, Outcome};
 use crate::gamut::export::{write_mesh, MeshFormat};
-use crate::gamut::report::{self, GamutReport, MeshFile};
+use crate::gamut::result::{GamutReport, MeshFile};
 use crate::gamut::{coverage_all, Gamut, GamutError, GamutOptions};
 use crate::icc::IccProfile;
 
@@ -94,7 +94,7 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if a.json {
         crate::report::write_json(out, &r)?;
     } else {
-        report::render(out, &r)?;
+        crate::report::gamut::render(out, &r)?;
     }
     Ok(Outcome::Done)
 }

@@ -31,7 +31,7 @@ use crate::icc::{Direction, IccError, IccProfile, Origin};
 use crate::io::Outputs;
 use crate::proof::heat::HeatScale;
 use crate::proof::raster::{self, DecodeLimits, FileKind, Raster, RasterError, RasterInfo, RgbImage};
-use crate::proof::report::{self, ImageReport, ProfileSource, ProofReport};
+use crate::proof::result::{ImageReport, ProfileSource, ProofReport};
 use crate::proof::{check_embedded, Method, ProofEngine};
 use crate::swatch::check::DEFAULT_TOLERANCE;
 
@@ -430,7 +430,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if a.json {
         crate::report::write_json(out, &r)?;
     } else {
-        report::render(out, &r, super::use_color())?;
+        crate::report::proof::render(out, &r, super::use_color())?;
     }
     Ok(if a.strict && beyond {
         Outcome::BeyondTolerance

@@ -12,11 +12,11 @@ use crate::precision::fixed;
 use std::io::{self, Write};
 use std::path::Path;
 
-use lcms2::{Flags, GlobalContext, PixelFormat, Profile, Transform};
+use lcms2::{PixelFormat, Profile};
 use serde_json::json;
 
 use super::mesh::Mesh;
-use crate::icc::transform::lab_d50_profile;
+use crate::icc::transform::{self, Shared, Side};
 use crate::icc::RenderingIntent;
 
 /// Which file format a path asks for, by its extension.
@@ -42,16 +42,12 @@ impl MeshFormat {
 /// sRGB (encoded, 0..1) of each CIELAB D50 vertex through lcms2's sRGB
 /// profile, relative colorimetric, clipped into 0..1.
 pub fn srgb_colours(vertices: &[[f64; 3]]) -> Vec<[f64; 3]> {
-    let lab = lab_d50_profile();
     let srgb = Profile::new_srgb();
-    let t: Result<Transform<[f64; 3], [f64; 3], GlobalContext, lcms2::DisallowCache>, _> = Transform::new_flags_context(
-        GlobalContext::new(),
-        &lab,
-        PixelFormat::Lab_DBL,
-        &srgb,
-        PixelFormat::RGB_DBL,
-        RenderingIntent::Relative.to_lcms(),
-        Flags::NO_CACHE,
+    let t: Result<Shared<[f64; 3], [f64; 3]>, _> = transform::shared(
+        Side::Lab,
+        Side::Profile(&srgb, PixelFormat::RGB_DBL),
+        RenderingIntent::Relative,
+        false,
     );
     let mut out = vec![[0.5; 3]; vertices.len()];
     if let Ok(t) = t {

@@ -31,16 +31,16 @@
 pub mod export;
 pub mod grid;
 pub mod mesh;
-pub mod report;
+pub mod result;
 
-use lcms2::{Flags, GlobalContext, PixelFormat, Transform};
+use lcms2::PixelFormat;
 use rayon::prelude::*;
 use serde::Serialize;
 
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
 use crate::icc::header::{self, Signature};
-use crate::icc::transform::lab_d50_profile;
+use crate::icc::transform::{self, Shared, Side};
 use crate::icc::{inspect, IccProfile, RenderingIntent};
 use grid::{Grid, GridError, Solid};
 use mesh::{Locator, Mesh};
@@ -186,27 +186,12 @@ fn sampling_err(name: &str, detail: impl Into<String>) -> GamutError {
 }
 
 /// Device → CIELAB D50, relative colorimetric, shareable across threads.
-fn to_lab_transform<T: Copy + lcms2::Pod>(
-    p: &IccProfile,
-    format: PixelFormat,
-) -> Result<Transform<T, Px3, GlobalContext, lcms2::DisallowCache>, GamutError> {
-    let lab = lab_d50_profile();
-    Transform::new_flags_context(
-        GlobalContext::new(),
-        &p.lcms,
-        format,
-        &lab,
-        PixelFormat::Lab_DBL,
-        RenderingIntent::Relative.to_lcms(),
-        Flags::NO_CACHE,
-    )
-    .map_err(|_| GamutError::Transform { name: p.name.clone() })
+fn to_lab_transform<T: Copy + lcms2::Pod>(p: &IccProfile, format: PixelFormat) -> Result<Shared<T, Px3>, GamutError> {
+    transform::shared(Side::of(p, format), Side::Lab, RenderingIntent::Relative, false)
+        .map_err(|_| GamutError::Transform { name: p.name.clone() })
 }
 
-fn run<T: Copy + lcms2::Pod + Sync>(
-    t: &Transform<T, Px3, GlobalContext, lcms2::DisallowCache>,
-    input: &[T],
-) -> Vec<Px3> {
+fn run<T: Copy + lcms2::Pod + Sync>(t: &Shared<T, Px3>, input: &[T]) -> Vec<Px3> {
     let mut out = vec![[0.0; 3]; input.len()];
     out.par_chunks_mut(4096)
         .zip(input.par_chunks(4096))

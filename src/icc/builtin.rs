@@ -73,12 +73,10 @@ pub fn info(name: &str) -> Option<&'static BuiltinInfo> {
 pub fn bytes(name: &str) -> Option<Result<Vec<u8>, IccError>> {
     let info = info(name)?;
     Some(match info.role {
-        Role::Press => crate::press::builtin_press_icc(name)
-            .map(<[u8]>::to_vec)
-            .ok_or_else(|| IccError::Builtin {
-                name: name.to_string(),
-                detail: "no press table".to_string(),
-            }),
+        Role::Press => press_icc(name).map(<[u8]>::to_vec).ok_or_else(|| IccError::Builtin {
+            name: name.to_string(),
+            detail: "no press table".to_string(),
+        }),
         Role::Screen => screen(info).map_err(|detail| IccError::Builtin {
             name: name.to_string(),
             detail,
@@ -177,9 +175,22 @@ fn screen(info: &BuiltinInfo) -> Result<Vec<u8>, String> {
     Ok(bytes)
 }
 
-/// The creation date written into every profile inkfit makes, so that the
-/// same definition always gives the same bytes.
-pub use crate::press::icc_writer::FIXED_DATE as PROFILE_DATE;
+/// The creation date written into every profile inkfit makes (header
+/// dateTimeNumber, year month day hour minute second), so that the same
+/// definition always gives the same bytes.
+pub const PROFILE_DATE: [u16; 6] = [2024, 1, 1, 0, 0, 0];
+
+/// The committed ICC output profile of `offset-coated`
+/// (rebuilt by `inkfit build-press offset-coated --out profiles/offset-coated.icc`).
+pub static OFFSET_COATED_ICC: &[u8] = include_bytes!("../../profiles/offset-coated.icc");
+
+/// The committed ICC profile bytes of the built-in press of that name.
+pub fn press_icc(name: &str) -> Option<&'static [u8]> {
+    match name {
+        "offset-coated" => Some(OFFSET_COATED_ICC),
+        _ => None,
+    }
+}
 
 /// Overwrites the header's dateTimeNumber (ICC.1:2010, 7.2.1, bytes 24..36)
 /// with [`PROFILE_DATE`].

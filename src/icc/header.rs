@@ -1,6 +1,7 @@
 //! Reading the ICC header and tag table straight from a profile's bytes
 //! (ICC.1:2010, clauses 7.2 and 7.3), and decoding the few simple tag types
-//! inkfit reports on (XYZType, s15Fixed16ArrayType).
+//! inkfit reports on (XYZType, s15Fixed16ArrayType) and the CLUT of the
+//! lutAToB / lutBToA tables it writes (10.10 / 10.11).
 //!
 //! lcms2 opens profiles too, but it is lenient; this reader is the strict
 //! gate that tells a user *why* a file is not a usable profile.
@@ -230,6 +231,47 @@ pub fn read_matrix3(bytes: &[u8], tag: TagEntry) -> Option<[[f64; 3]; 3]> {
 pub fn tag_type(bytes: &[u8], tag: TagEntry) -> Option<Signature> {
     let body = bytes.get(tag.offset..tag.offset + 4)?;
     Some(Signature([body[0], body[1], body[2], body[3]]))
+}
+
+/// A multidimensional table as stored in a lutAToB / lutBToA tag.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ClutTable {
+    /// Grid points per input channel.
+    pub grid: Vec<u8>,
+    pub outputs: usize,
+    /// Entries as stored: first input varies slowest, `outputs` values per
+    /// node, normalised to 16-bit codes (8-bit tables are scaled by 257).
+    pub values: Vec<u16>,
+}
+
+/// The CLUT of the lutAToBType or lutBToAType tag `sig` (ICC.1:2010, 10.10
+/// and 10.11); `None` when the tag is missing, of another type, has no CLUT
+/// or is shorter than its CLUT.
+pub fn read_clut(bytes: &[u8], tag: TagEntry) -> Option<ClutTable> {
+    let data = bytes.get(tag.offset..tag.offset.checked_add(tag.size)?)?;
+    let kind = data.get(0..4)?;
+    if kind != b"mAB " && kind != b"mBA " {
+        return None;
+    }
+    let (inputs, outputs) = (*data.get(8)? as usize, *data.get(9)? as usize);
+    let clut_at = data.get(24..28).map(|_| be_u32(data, 24) as usize)?;
+    if clut_at == 0 || inputs == 0 || inputs > 15 || outputs == 0 {
+        return None;
+    }
+    let grid = data.get(clut_at..clut_at + inputs)?.to_vec();
+    let precision = *data.get(clut_at + 16)?;
+    let count = grid.iter().map(|g| *g as usize).product::<usize>() * outputs;
+    let body = clut_at + 20;
+    let values = match precision {
+        2 => data
+            .get(body..body + 2 * count)?
+            .chunks_exact(2)
+            .map(|c| u16::from_be_bytes([c[0], c[1]]))
+            .collect(),
+        1 => data.get(body..body + count)?.iter().map(|v| *v as u16 * 257).collect(),
+        _ => return None,
+    };
+    Some(ClutTable { grid, outputs, values })
 }
 
 #[cfg(test)]

@@ -2,11 +2,11 @@
 //! carries tables for, primaries of matrix RGB profiles, and the largest total
 //! ink a CMYK output profile's Lab → CMYK table produces (measured by sampling).
 
-use lcms2::{InfoType, Locale, PixelFormat, Transform};
+use lcms2::{InfoType, Locale, PixelFormat};
 use serde::Serialize;
 
 use super::header::{self, read_matrix3, read_xyz};
-use super::transform::lab_d50_profile;
+use super::transform::{self, Local, Side};
 use super::{Direction, IccProfile, RenderingIntent, TableUse};
 use crate::color::{LabD50, Xy, Xyz, D50};
 
@@ -249,13 +249,11 @@ pub fn measure_max_ink(p: &IccProfile) -> Option<MaxInk> {
     if h.color_space != header::SPACE_CMYK || h.class != header::CLASS_OUTPUT {
         return None;
     }
-    let lab = lab_d50_profile();
-    let t: Transform<[f64; 3], [f64; 4]> = Transform::new(
-        &lab,
-        PixelFormat::Lab_DBL,
-        &p.lcms,
-        PixelFormat::CMYK_DBL,
-        RenderingIntent::Relative.to_lcms(),
+    let t: Local<[f64; 3], [f64; 4]> = transform::local(
+        Side::Lab,
+        Side::of(p, PixelFormat::CMYK_DBL),
+        RenderingIntent::Relative,
+        false,
     )
     .ok()?;
     let ink = |lab: &[[f64; 3]]| -> Vec<f64> {

@@ -1,8 +1,14 @@
-//! The lcms2 transforms inkfit runs: screen RGB and CIELAB to and from a press's
-//! CMYK, all in double precision (lcms2's float path: RGB 0..1, CMYK 0..100 %,
-//! CIELAB D50).
+//! Every lcms2 transform inkfit runs is built here: [`local`] for one thread
+//! (with lcms2's one-pixel cache), [`shared`] and [`shared_soft_proof`] for
+//! rayon workers (no cache, so the transform is `Sync`). One side may be
+//! [`Side::Lab`], CIELAB D50 in double precision. [`PressMapping::shown`] is
+//! the one place that decides how a print is shown (media-relative, or
+//! absolute on the paper's own white). On top of them, [`PressTransforms`]
+//! holds what a palette check needs: screen RGB and CIELAB to and from a
+//! press's CMYK, all in double precision (lcms2's float path: RGB 0..1, CMYK
+//! 0..100 %, CIELAB D50).
 
-use lcms2::{CIExyY, Flags, GlobalContext, PixelFormat, Profile, Transform};
+use lcms2::{AllowCache, CIExyY, DisallowCache, Flags, GlobalContext, PixelFormat, Profile, Transform};
 
 use super::{IccError, IccProfile, RenderingIntent};
 use crate::color::{LabD50, D50};
@@ -19,6 +25,112 @@ pub fn lab_d50_profile() -> Profile {
     Profile::new_lab4_context(GlobalContext::new(), &white).expect("lcms2 creates a Lab v4 profile")
 }
 
+/// One side of an lcms2 transform.
+#[derive(Clone, Copy)]
+pub enum Side<'a> {
+    /// Values of a profile's colour space in `PixelFormat`.
+    Profile(&'a Profile, PixelFormat),
+    /// CIELAB D50 in double precision (`Lab_DBL`, [`lab_d50_profile`]).
+    Lab,
+}
+
+impl<'a> Side<'a> {
+    /// The device side of a loaded profile, in `format`.
+    pub fn of(profile: &'a IccProfile, format: PixelFormat) -> Self {
+        Side::Profile(&profile.lcms, format)
+    }
+}
+
+/// A transform that rayon workers can share: built without lcms2's one-pixel
+/// cache through a context constructor, which makes it `Sync`.
+pub type Shared<I, O> = Transform<I, O, GlobalContext, DisallowCache>;
+
+/// A transform for one thread (lcms2 keeps a one-pixel cache in it).
+pub type Local<I, O> = Transform<I, O, GlobalContext, AllowCache>;
+
+/// Black point compensation, or no flag.
+fn bpc_flag(bpc: bool) -> Flags {
+    if bpc {
+        Flags::BLACKPOINT_COMPENSATION
+    } else {
+        Flags::default()
+    }
+}
+
+/// The lcms2 profile and pixel format of a side; `lab` is the CIELAB D50
+/// profile that [`Side::Lab`] stands for.
+fn resolve<'b>(side: Side<'b>, lab: &'b Profile) -> End<'b> {
+    match side {
+        Side::Profile(p, f) => (p, f),
+        Side::Lab => (lab, PixelFormat::Lab_DBL),
+    }
+}
+
+/// Runs `make` with both sides resolved to lcms2 profiles and formats.
+fn with_sides<T>(from: Side, to: Side, make: impl FnOnce(End, End) -> T) -> T {
+    let lab = lab_d50_profile();
+    make(resolve(from, &lab), resolve(to, &lab))
+}
+
+/// A one-thread transform from `from` to `to` with `intent`, and black point
+/// compensation when `bpc`.
+pub fn local<I: Copy + lcms2::Pod, O: Copy + lcms2::Pod>(
+    from: Side,
+    to: Side,
+    intent: RenderingIntent,
+    bpc: bool,
+) -> Result<Local<I, O>, lcms2::Error> {
+    with_sides(from, to, |f, t| {
+        Transform::new_flags(f.0, f.1, t.0, t.1, intent.to_lcms(), bpc_flag(bpc))
+    })
+}
+
+/// A transform rayon workers share (see [`Shared`]).
+pub fn shared<I: Copy + lcms2::Pod, O: Copy + lcms2::Pod>(
+    from: Side,
+    to: Side,
+    intent: RenderingIntent,
+    bpc: bool,
+) -> Result<Shared<I, O>, lcms2::Error> {
+    with_sides(from, to, |f, t| {
+        Transform::new_flags_context(
+            GlobalContext::new(),
+            f.0,
+            f.1,
+            t.0,
+            t.1,
+            intent.to_lcms(),
+            Flags::NO_CACHE | bpc_flag(bpc),
+        )
+    })
+}
+
+/// A shared soft-proofing transform: `from` → `press` with `intent` (and BPC
+/// when `bpc`), then `press` → `to` with `shown`, as one lcms2 proofing
+/// transform (`cmsFLAGS_SOFTPROOFING`).
+pub fn shared_soft_proof<I: Copy + lcms2::Pod, O: Copy + lcms2::Pod>(
+    from: Side,
+    to: Side,
+    press: &Profile,
+    intent: RenderingIntent,
+    shown: RenderingIntent,
+    bpc: bool,
+) -> Result<Shared<I, O>, lcms2::Error> {
+    with_sides(from, to, |f, t| {
+        Transform::new_proofing_context(
+            GlobalContext::new(),
+            f.0,
+            f.1,
+            t.0,
+            t.1,
+            press,
+            intent.to_lcms(),
+            shown.to_lcms(),
+            Flags::NO_CACHE | bpc_flag(bpc) | Flags::SOFT_PROOFING,
+        )
+    })
+}
+
 /// How a screen colour is sent to the press.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct PressMapping {
@@ -27,6 +139,19 @@ pub struct PressMapping {
     /// Show the print relative to the paper as measured (absolute
     /// colorimetric) instead of media-relative.
     pub paper_white: bool,
+}
+
+impl PressMapping {
+    /// The intent of press → CIELAB or screen, the print as shown: absolute
+    /// colorimetric on the paper's own white with `paper_white`, else
+    /// relative colorimetric. Never BPC.
+    pub fn shown(&self) -> RenderingIntent {
+        if self.paper_white {
+            RenderingIntent::Absolute
+        } else {
+            RenderingIntent::Relative
+        }
+    }
 }
 
 type Rgb = [f64; 3];
@@ -47,21 +172,16 @@ pub struct PressTransforms {
 /// One end of a transform: a profile and the pixel format of its side.
 type End<'a> = (&'a Profile, PixelFormat);
 
-/// Builds one lcms2 transform; a failure is reported against `blamed`.
+/// [`local`], with a failure reported against `blamed`.
 fn build<I: Copy + lcms2::Pod, O: Copy + lcms2::Pod>(
-    from: End,
-    to: End,
+    from: Side,
+    to: Side,
     intent: RenderingIntent,
     bpc: bool,
     blamed: &IccProfile,
     what: &'static str,
-) -> Result<Transform<I, O>, IccError> {
-    let flags = if bpc {
-        Flags::BLACKPOINT_COMPENSATION
-    } else {
-        Flags::default()
-    };
-    Transform::new_flags(from.0, from.1, to.0, to.1, intent.to_lcms(), flags).map_err(|_| IccError::Transform {
+) -> Result<Local<I, O>, IccError> {
+    local(from, to, intent, bpc).map_err(|_| IccError::Transform {
         name: blamed.name.clone(),
         what,
         intent,
@@ -70,17 +190,12 @@ fn build<I: Copy + lcms2::Pod, O: Copy + lcms2::Pod>(
 
 impl PressTransforms {
     pub fn new(screen: &IccProfile, press: &IccProfile, mapping: PressMapping) -> Result<Self, IccError> {
-        let lab = lab_d50_profile();
         let rel = RenderingIntent::Relative;
-        let shown = if mapping.paper_white {
-            RenderingIntent::Absolute
-        } else {
-            rel
-        };
+        let shown = mapping.shown();
         let (i, bpc) = (mapping.intent, mapping.bpc);
-        let s = (&screen.lcms, PixelFormat::RGB_DBL);
-        let p = (&press.lcms, PixelFormat::CMYK_DBL);
-        let l = (&lab, PixelFormat::Lab_DBL);
+        let s = Side::of(screen, PixelFormat::RGB_DBL);
+        let p = Side::of(press, PixelFormat::CMYK_DBL);
+        let l = Side::Lab;
         Ok(Self {
             screen_to_lab: build(s, l, rel, false, screen, "screen → CIELAB")?,
             screen_to_press: build(s, p, i, bpc, press, "screen → press")?,
@@ -153,12 +268,10 @@ pub fn resolve_lab(
     press: Option<&IccProfile>,
 ) -> Result<Vec<LabD50>, IccError> {
     use crate::color::css::ColorInput;
-    let lab = lab_d50_profile();
     let rel = RenderingIntent::Relative;
-    let l = (&lab, PixelFormat::Lab_DBL);
     // Each transform is built once, and only when an input needs it.
-    let mut from_screen: Option<Transform<Rgb, Lab>> = None;
-    let mut from_press: Option<Transform<Cmyk, Lab>> = None;
+    let mut from_screen: Option<Local<Rgb, Lab>> = None;
+    let mut from_press: Option<Local<Cmyk, Lab>> = None;
     let mut out = Vec::with_capacity(inputs.len());
     for input in inputs {
         out.push(match *input {
@@ -167,8 +280,8 @@ pub fn resolve_lab(
                 let t = match &from_screen {
                     Some(t) => t,
                     None => from_screen.insert(build(
-                        (&screen.lcms, PixelFormat::RGB_DBL),
-                        l,
+                        Side::of(screen, PixelFormat::RGB_DBL),
+                        Side::Lab,
                         rel,
                         false,
                         screen,
@@ -187,8 +300,8 @@ pub fn resolve_lab(
                             intent: rel,
                         })?;
                         from_press.insert(build(
-                            (&press.lcms, PixelFormat::CMYK_DBL),
-                            l,
+                            Side::of(press, PixelFormat::CMYK_DBL),
+                            Side::Lab,
                             rel,
                             false,
                             press,

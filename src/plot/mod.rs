@@ -12,11 +12,11 @@ pub mod geometry;
 pub mod locus;
 pub mod svg;
 
-use lcms2::{PixelFormat, Transform};
+use lcms2::PixelFormat;
 
 use crate::color::Xy;
 use crate::gamut::Gamut;
-use crate::icc::transform::lab_d50_profile;
+use crate::icc::transform::{self, Local, Side};
 use crate::icc::{IccProfile, RenderingIntent};
 use crate::swatch::check::CheckReport;
 use geometry::Polyline;
@@ -195,13 +195,11 @@ pub fn is_matrix_rgb(p: &IccProfile) -> bool {
 /// xy of the full red, green and blue of an RGB profile through lcms2
 /// (relative colorimetric, so D50-adapted as in the ICC connection space).
 pub fn primaries_xy(p: &IccProfile) -> Result<[Xy; 3], PlotError> {
-    let lab = lab_d50_profile();
-    let t: Transform<[f64; 3], [f64; 3]> = Transform::new(
-        &p.lcms,
-        PixelFormat::RGB_DBL,
-        &lab,
-        PixelFormat::Lab_DBL,
-        RenderingIntent::Relative.to_lcms(),
+    let t: Local<[f64; 3], [f64; 3]> = transform::local(
+        Side::of(p, PixelFormat::RGB_DBL),
+        Side::Lab,
+        RenderingIntent::Relative,
+        false,
     )
     .map_err(|_| profile_err(p, "lcms2 cannot build its RGB → CIELAB transform"))?;
     let rgb = [[1.0, 0.0, 0.0], [0.0, 1.0, 0.0], [0.0, 0.0, 1.0]];

@@ -21,82 +21,9 @@
 
 use super::mapping::{Mapper, Method};
 use super::model::PrintCondition;
-use super::PressError;
 use crate::color::delta::delta_e00_residuals;
 use crate::color::LabD50;
 use rayon::prelude::*;
-
-/// Black generation: the black amount aimed at for a target colour.
-///
-/// K_gcr(L*, C*) = t^γ / (1 + (C*/C_half)²),
-/// t = clamp((L_start − L*) / (L_start − L_full), 0, 1),
-///
-/// with L*, C* media-relative. No black above L_start, rising to 100 % at
-/// L_full (a power curve, γ > 1 keeps it gentle in the midtones), reduced
-/// for chromatic colours by the factor 1/(1 + (C*/C_half)²), which halves it
-/// at C* = C_half. The result is a fraction 0..1. It is an aim, not a
-/// constraint: the solver leaves it where the colour cannot be printed with
-/// that much (or that little) black.
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct GcrCurve {
-    /// L* at and above which no black is aimed at.
-    pub l_start: f64,
-    /// L* at and below which a neutral gets full black.
-    pub l_full: f64,
-    /// Exponent γ of the rise.
-    pub exponent: f64,
-    /// Chroma C*ab at which the black aim is halved.
-    pub chroma_half: f64,
-    /// Weight w of the pull towards the aim, in ΔE² per (full coverage)².
-    pub weight: f64,
-}
-
-impl GcrCurve {
-    /// A medium GCR for coated offset: black from L* 80 down, full black at
-    /// L* 18 (about the media-relative lightness of the black solid of
-    /// [`super::model::iso_coated_aims`]), γ = 1.4, halved at C* = 30;
-    /// weight 1 (0.1 of black away from the aim costs as much as
-    /// ΔE 0.1). Shape and numbers are a design choice in the range of
-    /// medium GCR settings of common practice.
-    pub fn medium() -> Self {
-        GcrCurve {
-            l_start: 80.0,
-            l_full: 18.0,
-            exponent: 1.4,
-            chroma_half: 30.0,
-            weight: 1.0,
-        }
-    }
-
-    pub(crate) fn validate(&self) -> Result<(), PressError> {
-        let ok = self.l_start > self.l_full
-            && self.l_full >= 0.0
-            && self.l_start <= 100.0
-            && self.exponent > 0.0
-            && self.exponent.is_finite()
-            && self.chroma_half > 0.0
-            && self.chroma_half.is_finite()
-            && self.weight >= 0.0
-            && self.weight.is_finite();
-        if ok {
-            Ok(())
-        } else {
-            Err(PressError::InvalidSpec("GCR curve parameters out of range".to_string()))
-        }
-    }
-
-    /// The black aim (fraction 0..1) for a media-relative target colour.
-    pub fn black_for(&self, target: LabD50) -> f64 {
-        let t = ((self.l_start - target.l) / (self.l_start - self.l_full)).clamp(0.0, 1.0);
-        let c = target.a.hypot(target.b) / self.chroma_half;
-        let k = t.powf(self.exponent) / (1.0 + c * c);
-        if k.is_finite() {
-            k
-        } else {
-            0.0
-        }
-    }
-}
 
 /// Euclidean projection of `y` onto {x : 0 ≤ x_i ≤ 1, Σ x_i ≤ cap}.
 ///
@@ -712,19 +639,5 @@ mod tests {
                 best00
             );
         }
-    }
-
-    #[test]
-    fn gcr_curve_shape() {
-        let g = GcrCurve::medium();
-        assert_eq!(g.black_for(LabD50::new(90.0, 0.0, 0.0)), 0.0);
-        assert!((g.black_for(LabD50::new(10.0, 0.0, 0.0)) - 1.0).abs() < 1e-12);
-        let mut last = 0.0;
-        for i in 0..=100 {
-            let k = g.black_for(LabD50::new(100.0 - i as f64, 0.0, 0.0));
-            assert!(k >= last);
-            last = k;
-        }
-        assert!((g.black_for(LabD50::new(18.0, 30.0, 0.0)) - 0.5).abs() < 1e-12);
     }
 }

@@ -1,16 +1,19 @@
-//! The built-in press conditions: the printing model, its inversion with
-//! black generation, and the writer of the ICC output profile built from
-//! them. Owns the committed profile bytes of each built-in condition.
+//! The built-in press conditions: what each is built from (`spec.rs`), the
+//! printing model, its inversion with black generation, and the writer of
+//! the ICC output profile built from them. The committed profile bytes are
+//! profiles like any other and live with the built-in profiles in
+//! [`crate::icc::builtin`]; this module depends on `icc`, never the reverse.
 
-pub mod icc_read;
 pub mod icc_writer;
 pub mod invert;
 pub mod mapping;
 pub mod model;
+pub mod spec;
 
 pub use icc_writer::build_icc;
-pub use invert::{GcrCurve, InkSolution};
-pub use model::{offset_coated, Aims, PressSpec, PrintCondition};
+pub use invert::InkSolution;
+pub use model::{offset_coated, PrintCondition};
+pub use spec::{Aims, GcrCurve, PressSpec};
 
 /// Errors of the press module.
 #[derive(Debug, thiserror::Error)]
@@ -26,10 +29,6 @@ pub enum PressError {
     Verify(String),
 }
 
-/// The committed ICC output profile of `offset-coated`
-/// (rebuilt by `inkfit build-press offset-coated --out profiles/offset-coated.icc`).
-pub static OFFSET_COATED_ICC: &[u8] = include_bytes!("../../profiles/offset-coated.icc");
-
 /// Names of the built-in press conditions.
 pub const BUILTIN_PRESS_NAMES: &[&str] = &["offset-coated"];
 
@@ -37,14 +36,6 @@ pub const BUILTIN_PRESS_NAMES: &[&str] = &["offset-coated"];
 pub fn builtin_press(name: &str) -> Option<PrintCondition> {
     match name {
         "offset-coated" => Some(offset_coated()),
-        _ => None,
-    }
-}
-
-/// The committed ICC profile bytes of the built-in press of that name.
-pub fn builtin_press_icc(name: &str) -> Option<&'static [u8]> {
-    match name {
-        "offset-coated" => Some(OFFSET_COATED_ICC),
         _ => None,
     }
 }

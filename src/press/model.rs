@@ -11,7 +11,7 @@
 //!   or ICC media-relative (XYZ scaled per channel by D50 / paper: the
 //!   media-relative colorimetry of ICC.1:2010).
 
-use super::invert::GcrCurve;
+use super::spec::{offset_coated_spec, PressSpec};
 use super::PressError;
 use crate::color::{LabD50, Xyz, D50};
 
@@ -20,48 +20,6 @@ pub const CYAN: usize = 0;
 pub const MAGENTA: usize = 1;
 pub const YELLOW: usize = 2;
 pub const BLACK: usize = 3;
-
-/// Colorimetric aims of the unprinted paper, the four solids and the
-/// chromatic overprints, all absolute CIELAB (D50).
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct Aims {
-    pub paper: LabD50,
-    pub cyan: LabD50,
-    pub magenta: LabD50,
-    pub yellow: LabD50,
-    pub black: LabD50,
-    /// Cyan + magenta (blue).
-    pub cyan_magenta: LabD50,
-    /// Cyan + yellow (green).
-    pub cyan_yellow: LabD50,
-    /// Magenta + yellow (red).
-    pub magenta_yellow: LabD50,
-    /// Cyan + magenta + yellow.
-    pub cyan_magenta_yellow: LabD50,
-}
-
-/// The description of a press condition: everything the model is built from.
-#[derive(Clone, Debug, PartialEq)]
-pub struct PressSpec {
-    /// Short machine name, e.g. `offset-coated`.
-    pub name: String,
-    /// One-line human description, written into the profile.
-    pub description: String,
-    pub aims: Aims,
-    /// Designed tone value increase at 50 % nominal, per ink (C, M, Y, K),
-    /// as a fraction (0.14 = 14 %). Allowed range 0..=0.25 so that the
-    /// tone value curve stays monotone and inside 0..1.
-    pub tvi50: [f64; 4],
-    /// Yule–Nielsen n (≥ 1; 1 is the plain Neugebauer / Murray–Davies case).
-    pub yule_nielsen_n: f64,
-    /// Total area coverage limit in percent (sum of the four inks).
-    pub tac_percent: f64,
-    /// Black generation used when inverting the model.
-    pub gcr: GcrCurve,
-    /// Floor of the black-overprint rule as a fraction of the paper's
-    /// tristimulus value (see [`black_overprint`]).
-    pub black_overprint_floor: f64,
-}
 
 /// A press condition ready to evaluate: the spec plus the Neugebauer
 /// primaries derived from it.
@@ -127,49 +85,6 @@ pub fn murray_davies(paper: f64, tint: f64, solid: f64) -> Option<f64> {
 pub fn black_overprint(x: f64, k: f64, paper: f64, floor_fraction: f64) -> f64 {
     let r0 = floor_fraction * paper;
     r0 + (x - r0) * (k - r0) / (paper - r0)
-}
-
-/// The aims of ISO 12647-2:2004/Amd 1:2007 for paper types 1 and 2 (gloss
-/// and matt coated), white backing, D50 / 2°, 0°/45° geometry, no UV
-/// cut-off filter (M0 in ISO 13655:2009 terms). Values from memory; the
-/// three-colour overprint C+M+Y is the value least certain.
-pub fn iso_coated_aims() -> Aims {
-    Aims {
-        paper: LabD50::new(95.0, 0.0, -2.0),
-        cyan: LabD50::new(55.0, -37.0, -50.0),
-        magenta: LabD50::new(48.0, 74.0, -3.0),
-        yellow: LabD50::new(89.0, -5.0, 93.0),
-        black: LabD50::new(16.0, 0.0, 0.0),
-        cyan_magenta: LabD50::new(24.0, 22.0, -46.0),
-        cyan_yellow: LabD50::new(50.0, -65.0, 27.0),
-        magenta_yellow: LabD50::new(47.0, 68.0, 48.0),
-        cyan_magenta_yellow: LabD50::new(23.0, 0.0, 0.0),
-    }
-}
-
-/// The spec of the built-in `offset-coated` condition.
-///
-/// - Aims: [`iso_coated_aims`].
-/// - TVI at 50 %: 14 % for C, M, Y and 17 % for K: from memory, the
-///   ISO 12647-2:2004/Amd 1 values for positive plates on paper types 1/2
-///   at 60 /cm are in this region, with black a few points above the
-///   chromatic inks.
-/// - Yule–Nielsen n = 1.7: the values reported for AM-screened offset on
-///   coated paper mostly lie between 1.5 and 2 (from memory); 1.7 sits in
-///   the middle.
-/// - TAC 330 %: common practice for coated sheet-fed offset.
-/// - Black generation: [`GcrCurve::medium`].
-pub fn offset_coated_spec() -> PressSpec {
-    PressSpec {
-        name: "offset-coated".to_string(),
-        description: "inkfit offset-coated: coated offset model, ISO 12647-2 style aims".to_string(),
-        aims: iso_coated_aims(),
-        tvi50: [0.14, 0.14, 0.14, 0.17],
-        yule_nielsen_n: 1.7,
-        tac_percent: 330.0,
-        gcr: GcrCurve::medium(),
-        black_overprint_floor: 0.01,
-    }
 }
 
 /// The built-in `offset-coated` condition.

@@ -16,11 +16,11 @@
 
 use std::fmt::Write as _;
 
-use lcms2::{PixelFormat, Transform};
+use lcms2::PixelFormat;
 
 use super::stats::{BIN, BINS};
 use crate::color::LabD50;
-use crate::icc::transform::lab_d50_profile;
+use crate::icc::transform::{self, Local, Side};
 use crate::icc::{IccError, IccProfile, RenderingIntent};
 
 /// ΔE00 at the top of the scale; larger values take its colour.
@@ -53,13 +53,11 @@ pub struct HeatScale {
 impl HeatScale {
     pub fn new() -> Result<Self, IccError> {
         let srgb = IccProfile::load("srgb")?;
-        let lab = lab_d50_profile();
-        let t: Transform<[f64; 3], [u8; 3]> = Transform::new(
-            &lab,
-            PixelFormat::Lab_DBL,
-            &srgb.lcms,
-            PixelFormat::RGB_8,
-            RenderingIntent::Relative.to_lcms(),
+        let t: Local<[f64; 3], [u8; 3]> = transform::local(
+            Side::Lab,
+            Side::of(&srgb, PixelFormat::RGB_8),
+            RenderingIntent::Relative,
+            false,
         )
         .map_err(|_| IccError::Transform {
             name: srgb.name.clone(),

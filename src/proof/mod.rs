@@ -45,38 +45,29 @@
 
 pub mod heat;
 pub mod raster;
-pub mod report;
+pub mod result;
 pub mod stats;
 
-use lcms2::{DisallowCache, Flags, GlobalContext, PixelFormat, Transform};
+use lcms2::PixelFormat;
 use rayon::prelude::*;
 
 use crate::color::delta::delta_e00;
 use crate::color::delta::NOTICEABLE_DE00;
 use crate::color::LabD50;
 use crate::icc::header::{CLASS_OUTPUT, SPACE_CMYK, SPACE_GRAY, SPACE_LAB, SPACE_RGB, SPACE_XYZ};
-use crate::icc::transform::{lab_d50_profile, PressMapping};
+use crate::icc::transform::{self, PressMapping, Shared, Side};
 use crate::icc::{IccError, IccProfile, RenderingIntent};
 use heat::HeatScale;
 use raster::Raster;
 use stats::{bin_of, Tally};
 
-/// A transform that rayon workers can share: built without lcms2's one-pixel
-/// cache through a context constructor, which makes it `Sync`.
-pub type SharedTransform = Transform<u8, u8, GlobalContext, DisallowCache>;
+/// The transforms of a proof run over bytes, shared by rayon workers.
+pub type SharedTransform = Shared<u8, u8>;
 
 /// Nodes per axis of the RGB table.
 pub const RGB_GRID: usize = 65;
 /// Pixels per parallel task.
 const CHUNK: usize = 32 * 1024;
-
-fn no_cache(bpc: bool) -> Flags<DisallowCache> {
-    if bpc {
-        Flags::NO_CACHE | Flags::BLACKPOINT_COMPENSATION
-    } else {
-        Flags::NO_CACHE
-    }
-}
 
 /// The lcms2 pixel format of `channels` (1 grey, 3 RGB or 4 CMYK) at `bits`
 /// (8 or 16).
@@ -142,16 +133,7 @@ fn at_fault<'p>(
     dest: &'p IccProfile,
     intent: RenderingIntent,
 ) -> &'p IccProfile {
-    let lab = lab_d50_profile();
-    let alone: Result<SharedTransform, _> = Transform::new_flags_context(
-        GlobalContext::new(),
-        &source.lcms,
-        format,
-        &lab,
-        PixelFormat::Lab_DBL,
-        intent.to_lcms(),
-        no_cache(false),
-    );
+    let alone: Result<SharedTransform, _> = transform::shared(Side::of(source, format), Side::Lab, intent, false);
     if alone.is_err() {
         source
     } else {
@@ -206,26 +188,24 @@ impl ExactModel {
     /// For a CMYK image: `input` is its CMYK profile (its own, or the press),
     /// shown on `screen`; `mapping.paper_white` picks the rendering shown.
     pub fn for_press_data(input: &IccProfile, screen: &IccProfile, mapping: PressMapping) -> Result<Self, IccError> {
-        let lab = lab_d50_profile();
-        let ctx = GlobalContext::new;
-        let shown = shown_intent(mapping);
+        let shown = mapping.shown();
         let err = |p: &IccProfile, what: &'static str| IccError::Transform {
             name: p.name.clone(),
             what,
             intent: shown,
         };
-        let t = |from: &IccProfile, ff: PixelFormat, to: &lcms2::Profile, tf: PixelFormat| {
-            Transform::new_flags_context(ctx(), &from.lcms, ff, to, tf, shown.to_lcms(), no_cache(false))
-        };
+        let t = |from: Side, to: Side| transform::shared(from, to, shown, false);
+        let (ink, rgb) = (
+            Side::of(input, PixelFormat::CMYK_DBL),
+            Side::of(screen, PixelFormat::RGB_DBL),
+        );
         Ok(Self {
             channels: 4,
             chain: Chain::Press(PressChain {
-                to_lab: t(input, PixelFormat::CMYK_DBL, &lab, PixelFormat::Lab_DBL)
-                    .map_err(|_| err(input, "press → CIELAB"))?,
-                to_screen: t(input, PixelFormat::CMYK_DBL, &screen.lcms, PixelFormat::RGB_DBL)
+                to_lab: t(ink, Side::Lab).map_err(|_| err(input, "press → CIELAB"))?,
+                to_screen: t(ink, rgb)
                     .map_err(|_| err(at_fault(input, PixelFormat::CMYK_DBL, screen, shown), "press → screen"))?,
-                screen_to_lab: t(screen, PixelFormat::RGB_DBL, &lab, PixelFormat::Lab_DBL)
-                    .map_err(|_| err(screen, "screen → CIELAB"))?,
+                screen_to_lab: t(rgb, Side::Lab).map_err(|_| err(screen, "screen → CIELAB"))?,
             }),
         })
     }
@@ -236,83 +216,38 @@ impl ExactModel {
         press: &IccProfile,
         mapping: PressMapping,
     ) -> Result<Self, IccError> {
-        let lab = lab_d50_profile();
-        let ctx = GlobalContext::new;
         let in_fmt = if channels == 1 {
             PixelFormat::GRAY_DBL
         } else {
             PixelFormat::RGB_DBL
         };
         let rel = RenderingIntent::Relative;
-        let shown = if mapping.paper_white {
-            RenderingIntent::Absolute
-        } else {
-            rel
-        };
+        let shown = mapping.shown();
         let err = |p: &IccProfile, what: &'static str, intent| IccError::Transform {
             name: p.name.clone(),
             what,
             intent,
         };
+        let (image, ink) = (Side::of(input, in_fmt), Side::of(press, PixelFormat::CMYK_DBL));
+        let to_press = transform::shared(image, ink, mapping.intent, mapping.bpc).map_err(|_| {
+            err(
+                at_fault(input, in_fmt, press, mapping.intent),
+                "image → press",
+                mapping.intent,
+            )
+        })?;
         Ok(Self {
             channels,
             chain: Chain::Screen(ScreenChain {
-                to_lab: Transform::new_flags_context(
-                    ctx(),
-                    &input.lcms,
-                    in_fmt,
-                    &lab,
-                    PixelFormat::Lab_DBL,
-                    rel.to_lcms(),
-                    no_cache(false),
-                )
-                .map_err(|_| err(input, "image → CIELAB", rel))?,
-                to_press: Transform::new_flags_context(
-                    ctx(),
-                    &input.lcms,
-                    in_fmt,
-                    &press.lcms,
-                    PixelFormat::CMYK_DBL,
-                    mapping.intent.to_lcms(),
-                    no_cache(mapping.bpc),
-                )
-                .map_err(|_| {
-                    err(
-                        at_fault(input, in_fmt, press, mapping.intent),
-                        "image → press",
-                        mapping.intent,
-                    )
-                })?,
-                printed: Transform::new_flags_context(
-                    ctx(),
-                    &press.lcms,
-                    PixelFormat::CMYK_DBL,
-                    &lab,
-                    PixelFormat::Lab_DBL,
-                    shown.to_lcms(),
-                    no_cache(false),
-                )
-                .map_err(|_| err(press, "press → CIELAB", shown))?,
-                lab_to_press: Transform::new_flags_context(
-                    ctx(),
-                    &lab,
-                    PixelFormat::Lab_DBL,
-                    &press.lcms,
-                    PixelFormat::CMYK_DBL,
-                    rel.to_lcms(),
-                    no_cache(false),
-                )
-                .map_err(|_| err(press, "CIELAB → press", rel))?,
-                press_to_lab: Transform::new_flags_context(
-                    ctx(),
-                    &press.lcms,
-                    PixelFormat::CMYK_DBL,
-                    &lab,
-                    PixelFormat::Lab_DBL,
-                    rel.to_lcms(),
-                    no_cache(false),
-                )
-                .map_err(|_| err(press, "press → CIELAB", rel))?,
+                to_lab: transform::shared(image, Side::Lab, rel, false)
+                    .map_err(|_| err(input, "image → CIELAB", rel))?,
+                to_press,
+                printed: transform::shared(ink, Side::Lab, shown, false)
+                    .map_err(|_| err(press, "press → CIELAB", shown))?,
+                lab_to_press: transform::shared(Side::Lab, ink, rel, false)
+                    .map_err(|_| err(press, "CIELAB → press", rel))?,
+                press_to_lab: transform::shared(ink, Side::Lab, rel, false)
+                    .map_err(|_| err(press, "press → CIELAB", rel))?,
             }),
         })
     }
@@ -397,14 +332,6 @@ fn lab_at(v: &[f64], i: usize) -> LabD50 {
 /// lcms2's floating-point CMYK is ink in percent (0..100).
 fn ink_percent(device: &[f64]) -> Vec<f64> {
     device.iter().map(|v| v * 100.0).collect()
-}
-
-fn shown_intent(mapping: PressMapping) -> RenderingIntent {
-    if mapping.paper_white {
-        RenderingIntent::Absolute
-    } else {
-        RenderingIntent::Relative
-    }
 }
 
 /// `[ΔE00, round-trip ΔE00]` tabulated over the input device space.
@@ -553,18 +480,13 @@ impl ProofEngine {
         press: &IccProfile,
         mapping: PressMapping,
     ) -> Result<Self, IccError> {
-        let shown = shown_intent(mapping);
+        let shown = mapping.shown();
+        let (image, shown_on) = (
+            Side::of(input, device_format(channels, bits)),
+            Side::of(screen, device_format(3, bits)),
+        );
         if channels == 4 {
-            let proof = Transform::new_flags_context(
-                GlobalContext::new(),
-                &input.lcms,
-                device_format(4, bits),
-                &screen.lcms,
-                device_format(3, bits),
-                shown.to_lcms(),
-                no_cache(false),
-            )
-            .map_err(|_| IccError::Transform {
+            let proof = transform::shared(image, shown_on, shown, false).map_err(|_| IccError::Transform {
                 name: at_fault(input, device_format(4, bits), screen, shown).name.clone(),
                 what: "press → screen",
                 intent: shown,
@@ -579,24 +501,14 @@ impl ProofEngine {
                 table,
             });
         }
-        let proof = Transform::new_proofing_context(
-            GlobalContext::new(),
-            &input.lcms,
-            device_format(channels, bits),
-            &screen.lcms,
-            device_format(3, bits),
-            &press.lcms,
-            mapping.intent.to_lcms(),
-            shown.to_lcms(),
-            no_cache(mapping.bpc) | Flags::SOFT_PROOFING,
-        )
-        .map_err(|_| IccError::Transform {
-            name: at_fault(input, device_format(channels, bits), press, mapping.intent)
-                .name
-                .clone(),
-            what: "soft proof",
-            intent: mapping.intent,
-        })?;
+        let proof = transform::shared_soft_proof(image, shown_on, &press.lcms, mapping.intent, shown, mapping.bpc)
+            .map_err(|_| IccError::Transform {
+                name: at_fault(input, device_format(channels, bits), press, mapping.intent)
+                    .name
+                    .clone(),
+                what: "soft proof",
+                intent: mapping.intent,
+            })?;
         let exact = ExactModel::new(input, channels, press, mapping)?;
         let n = match (channels, bits) {
             (1, 8) => 256,

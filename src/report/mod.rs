@@ -2,6 +2,9 @@
 //! Every renderer writes to `impl Write` and is deterministic (fixed
 //! precision, stable order).
 
+pub mod gamut;
+pub mod proof;
+pub mod repair;
 pub mod survival;
 pub mod table;
 

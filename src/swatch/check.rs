@@ -338,11 +338,7 @@ fn summarise(entries: &[CheckedEntry]) -> CheckSummary {
 }
 
 fn notes(screen: &IccProfile, press: &IccProfile, m: PressMapping) -> Vec<String> {
-    let shown = if m.paper_white {
-        RenderingIntent::Absolute
-    } else {
-        RenderingIntent::Relative
-    };
+    let shown = m.shown();
     [
         screen.intent_note(m.intent, Direction::ToPcs),
         press.intent_note(m.intent, Direction::FromPcs),

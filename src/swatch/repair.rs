@@ -26,7 +26,7 @@
 //! cannot all be met; the result is then checked again with the full
 //! pipeline, and every check that still fails is reported.
 
-use lcms2::{PixelFormat, Transform};
+use lcms2::PixelFormat;
 use serde::Serialize;
 
 use super::check::{check_against, CheckOptions, CheckReport};
@@ -39,7 +39,7 @@ use crate::color::cvd::Simulator;
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
 use crate::gamut::Gamut;
-use crate::icc::transform::{lab_d50_profile, PressMapping, PressTransforms};
+use crate::icc::transform::{self, Local, PressMapping, PressTransforms, Side};
 use crate::icc::{IccError, IccProfile, RenderingIntent};
 use crate::precision::round;
 
@@ -384,13 +384,11 @@ pub fn repair(
             w: 1.0,
         };
         let x = optimise(pb, opts.iterations);
-        let lab = lab_d50_profile();
-        let to_screen: Transform<[f64; 3], [f64; 3]> = Transform::new(
-            &lab,
-            PixelFormat::Lab_DBL,
-            &screen.lcms,
-            PixelFormat::RGB_DBL,
-            RenderingIntent::Relative.to_lcms(),
+        let to_screen: Local<[f64; 3], [f64; 3]> = transform::local(
+            Side::Lab,
+            Side::of(screen, PixelFormat::RGB_DBL),
+            RenderingIntent::Relative,
+            false,
         )
         .map_err(|_| RepairError::ScreenTransform {
             name: screen.name.clone(),

@@ -1,0 +1,184 @@
+//! What a press condition is built from: the colorimetric aims of paper,
+//! solids and overprints, tone value increase, Yule–Nielsen n, total area
+//! coverage, the black generation curve, and the specs of the built-in
+//! conditions. Plain data with its checks; the model (`model.rs`) evaluates
+//! it and the inversion (`invert.rs`) uses its black generation.
+
+use super::PressError;
+use crate::color::LabD50;
+
+/// Colorimetric aims of the unprinted paper, the four solids and the
+/// chromatic overprints, all absolute CIELAB (D50).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Aims {
+    pub paper: LabD50,
+    pub cyan: LabD50,
+    pub magenta: LabD50,
+    pub yellow: LabD50,
+    pub black: LabD50,
+    /// Cyan + magenta (blue).
+    pub cyan_magenta: LabD50,
+    /// Cyan + yellow (green).
+    pub cyan_yellow: LabD50,
+    /// Magenta + yellow (red).
+    pub magenta_yellow: LabD50,
+    /// Cyan + magenta + yellow.
+    pub cyan_magenta_yellow: LabD50,
+}
+
+/// The description of a press condition: everything the model is built from.
+#[derive(Clone, Debug, PartialEq)]
+pub struct PressSpec {
+    /// Short machine name, e.g. `offset-coated`.
+    pub name: String,
+    /// One-line human description, written into the profile.
+    pub description: String,
+    pub aims: Aims,
+    /// Designed tone value increase at 50 % nominal, per ink (C, M, Y, K),
+    /// as a fraction (0.14 = 14 %). Allowed range 0..=0.25 so that the
+    /// tone value curve stays monotone and inside 0..1.
+    pub tvi50: [f64; 4],
+    /// Yule–Nielsen n (≥ 1; 1 is the plain Neugebauer / Murray–Davies case).
+    pub yule_nielsen_n: f64,
+    /// Total area coverage limit in percent (sum of the four inks).
+    pub tac_percent: f64,
+    /// Black generation used when inverting the model.
+    pub gcr: GcrCurve,
+    /// Floor of the black-overprint rule as a fraction of the paper's
+    /// tristimulus value (see [`black_overprint`]).
+    pub black_overprint_floor: f64,
+}
+
+/// Black generation: the black amount aimed at for a target colour.
+///
+/// K_gcr(L*, C*) = t^γ / (1 + (C*/C_half)²),
+/// t = clamp((L_start − L*) / (L_start − L_full), 0, 1),
+///
+/// with L*, C* media-relative. No black above L_start, rising to 100 % at
+/// L_full (a power curve, γ > 1 keeps it gentle in the midtones), reduced
+/// for chromatic colours by the factor 1/(1 + (C*/C_half)²), which halves it
+/// at C* = C_half. The result is a fraction 0..1. It is an aim, not a
+/// constraint: the solver leaves it where the colour cannot be printed with
+/// that much (or that little) black.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct GcrCurve {
+    /// L* at and above which no black is aimed at.
+    pub l_start: f64,
+    /// L* at and below which a neutral gets full black.
+    pub l_full: f64,
+    /// Exponent γ of the rise.
+    pub exponent: f64,
+    /// Chroma C*ab at which the black aim is halved.
+    pub chroma_half: f64,
+    /// Weight w of the pull towards the aim, in ΔE² per (full coverage)².
+    pub weight: f64,
+}
+
+impl GcrCurve {
+    /// A medium GCR for coated offset: black from L* 80 down, full black at
+    /// L* 18 (about the media-relative lightness of the black solid of
+    /// [`iso_coated_aims`]), γ = 1.4, halved at C* = 30;
+    /// weight 1 (0.1 of black away from the aim costs as much as
+    /// ΔE 0.1). Shape and numbers are a design choice in the range of
+    /// medium GCR settings of common practice.
+    pub fn medium() -> Self {
+        GcrCurve {
+            l_start: 80.0,
+            l_full: 18.0,
+            exponent: 1.4,
+            chroma_half: 30.0,
+            weight: 1.0,
+        }
+    }
+
+    pub(crate) fn validate(&self) -> Result<(), PressError> {
+        let ok = self.l_start > self.l_full
+            && self.l_full >= 0.0
+            && self.l_start <= 100.0
+            && self.exponent > 0.0
+            && self.exponent.is_finite()
+            && self.chroma_half > 0.0
+            && self.chroma_half.is_finite()
+            && self.weight >= 0.0
+            && self.weight.is_finite();
+        if ok {
+            Ok(())
+        } else {
+            Err(PressError::InvalidSpec("GCR curve parameters out of range".to_string()))
+        }
+    }
+
+    /// The black aim (fraction 0..1) for a media-relative target colour.
+    pub fn black_for(&self, target: LabD50) -> f64 {
+        let t = ((self.l_start - target.l) / (self.l_start - self.l_full)).clamp(0.0, 1.0);
+        let c = target.a.hypot(target.b) / self.chroma_half;
+        let k = t.powf(self.exponent) / (1.0 + c * c);
+        if k.is_finite() {
+            k
+        } else {
+            0.0
+        }
+    }
+}
+
+/// The aims of ISO 12647-2:2004/Amd 1:2007 for paper types 1 and 2 (gloss
+/// and matt coated), white backing, D50 / 2°, 0°/45° geometry, no UV
+/// cut-off filter (M0 in ISO 13655:2009 terms). Values from memory; the
+/// three-colour overprint C+M+Y is the value least certain.
+pub fn iso_coated_aims() -> Aims {
+    Aims {
+        paper: LabD50::new(95.0, 0.0, -2.0),
+        cyan: LabD50::new(55.0, -37.0, -50.0),
+        magenta: LabD50::new(48.0, 74.0, -3.0),
+        yellow: LabD50::new(89.0, -5.0, 93.0),
+        black: LabD50::new(16.0, 0.0, 0.0),
+        cyan_magenta: LabD50::new(24.0, 22.0, -46.0),
+        cyan_yellow: LabD50::new(50.0, -65.0, 27.0),
+        magenta_yellow: LabD50::new(47.0, 68.0, 48.0),
+        cyan_magenta_yellow: LabD50::new(23.0, 0.0, 0.0),
+    }
+}
+
+/// The spec of the built-in `offset-coated` condition.
+///
+/// - Aims: [`iso_coated_aims`].
+/// - TVI at 50 %: 14 % for C, M, Y and 17 % for K: from memory, the
+///   ISO 12647-2:2004/Amd 1 values for positive plates on paper types 1/2
+///   at 60 /cm are in this region, with black a few points above the
+///   chromatic inks.
+/// - Yule–Nielsen n = 1.7: the values reported for AM-screened offset on
+///   coated paper mostly lie between 1.5 and 2 (from memory); 1.7 sits in
+///   the middle.
+/// - TAC 330 %: common practice for coated sheet-fed offset.
+/// - Black generation: [`GcrCurve::medium`].
+pub fn offset_coated_spec() -> PressSpec {
+    PressSpec {
+        name: "offset-coated".to_string(),
+        description: "inkfit offset-coated: coated offset model, ISO 12647-2 style aims".to_string(),
+        aims: iso_coated_aims(),
+        tvi50: [0.14, 0.14, 0.14, 0.17],
+        yule_nielsen_n: 1.7,
+        tac_percent: 330.0,
+        gcr: GcrCurve::medium(),
+        black_overprint_floor: 0.01,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn gcr_curve_shape() {
+        let g = GcrCurve::medium();
+        assert_eq!(g.black_for(LabD50::new(90.0, 0.0, 0.0)), 0.0);
+        assert!((g.black_for(LabD50::new(10.0, 0.0, 0.0)) - 1.0).abs() < 1e-12);
+        let mut last = 0.0;
+        for i in 0..=100 {
+            let k = g.black_for(LabD50::new(100.0 - i as f64, 0.0, 0.0));
+            assert!(k >= last);
+            last = k;
+        }
+        assert!((g.black_for(LabD50::new(18.0, 30.0, 0.0)) - 0.5).abs() < 1e-12);
+    }
+}
