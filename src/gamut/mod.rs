@@ -28,8 +28,10 @@
 //! Coverage of A by B rasterises both solids into one shared voxel grid and
 //! counts: share = |A ∩ B| / |A|.
 
+mod coverage;
 pub mod export;
 pub mod grid;
+mod ink_domain;
 pub mod mesh;
 pub mod result;
 
@@ -42,7 +44,9 @@ use crate::color::LabD50;
 use crate::icc::header::{self, Signature};
 use crate::icc::transform::{self, Shared, Side};
 use crate::icc::{inspect, IccProfile, RenderingIntent};
+pub use coverage::{coverage_all, coverage_pair, Coverage, COVERAGE_MAX_VOXELS};
 use grid::{Grid, GridError, Solid};
+pub use ink_domain::ink_domain_faces;
 use mesh::{Locator, Mesh};
 
 /// Why a profile's gamut cannot be computed. Each names the profile.
@@ -425,70 +429,6 @@ impl Gamut {
     }
 }
 
-/// The eight 3-faces of the ink domain {0 ≤ C, M, Y, K ≤ 100, C+M+Y+K ≤ T}
-/// where one ink is 0 or 100 %, plus the face C+M+Y+K = T when T < 400, each
-/// as an (n+1)³ grid of CMYK values (percent), index (i·(n+1) + j)·(n+1) + k.
-/// Grid points beyond the limit are pulled onto it (the free inks scaled
-/// down together), so every point is a valid ink combination on the domain's
-/// boundary and every boundary point is covered.
-pub fn ink_domain_faces(limit: f64, n: usize) -> Vec<Vec<Px4>> {
-    let m = n + 1;
-    let step = 100.0 / n as f64;
-    let mut faces = Vec::new();
-    for fixed_ink in 0..4 {
-        for fixed in [0.0, 100.0] {
-            if fixed > limit {
-                continue;
-            }
-            let mut face = Vec::with_capacity(m * m * m);
-            for i in 0..m {
-                for j in 0..m {
-                    for k in 0..m {
-                        let mut free = [i as f64 * step, j as f64 * step, k as f64 * step];
-                        let s: f64 = free.iter().sum();
-                        if fixed + s > limit && s > 0.0 {
-                            let scale = (limit - fixed) / s;
-                            free = free.map(|v| v * scale);
-                        }
-                        let mut c = [0.0; 4];
-                        let mut f = free.iter();
-                        for (ink, v) in c.iter_mut().enumerate() {
-                            *v = if ink == fixed_ink {
-                                fixed
-                            } else {
-                                *f.next().unwrap_or(&0.0)
-                            };
-                        }
-                        face.push(c);
-                    }
-                }
-            }
-            faces.push(face);
-        }
-    }
-    if limit < 400.0 {
-        let mut face = Vec::with_capacity(m * m * m);
-        for i in 0..m {
-            for j in 0..m {
-                for k in 0..m {
-                    let mut cmy = [i as f64 * step, j as f64 * step, k as f64 * step];
-                    let s: f64 = cmy.iter().sum();
-                    let mut black = limit - s;
-                    if black > 100.0 {
-                        black = 100.0;
-                    } else if black < 0.0 {
-                        cmy = cmy.map(|v| v * limit / s);
-                        black = 0.0;
-                    }
-                    face.push([cmy[0], cmy[1], cmy[2], black]);
-                }
-            }
-        }
-        faces.push(face);
-    }
-    faces
-}
-
 /// The grid of a gamut's own solid.
 fn own_grid(name: &str, lo: [f64; 3], hi: [f64; 3], voxel: f64) -> Result<Grid, GamutError> {
     Grid::covering(lo, hi, voxel).map_err(|source| GamutError::Grid {
@@ -593,72 +533,6 @@ fn hue_sectors(samples: &[Px3]) -> Vec<HueSector> {
             }
         })
         .collect()
-}
-
-/// How much of gamut `a` lies inside gamut `b`.
-#[derive(Clone, Debug, PartialEq, Serialize)]
-pub struct Coverage {
-    pub a: String,
-    pub b: String,
-    /// |A ∩ B| / |A|, 0..1.
-    pub a_inside_b: f64,
-    /// |A ∩ B| in cubic CIELAB units.
-    pub intersection_volume: f64,
-}
-
-/// Largest number of voxels in a shared coverage grid; beyond it the voxel
-/// grows (wide gamuts such as ROMM RGB span a large box).
-pub const COVERAGE_MAX_VOXELS: f64 = 8.0e6;
-
-/// Coverage both ways between two gamuts, counted on one shared voxel grid
-/// of edge at least `voxel`.
-pub fn coverage_pair(a: &Gamut, b: &Gamut, voxel: f64) -> Result<(Coverage, Coverage), GamutError> {
-    let lo = [0, 1, 2].map(|d| a.lo[d].min(b.lo[d]));
-    let hi = [0, 1, 2].map(|d| a.hi[d].max(b.hi[d]));
-    let box_volume: f64 = (0..3).map(|d| hi[d] - lo[d] + 4.0 * voxel).product();
-    let h = voxel.max((box_volume / COVERAGE_MAX_VOXELS).cbrt());
-    let grid = Grid::covering(lo, hi, h).map_err(|source| GamutError::CoverageGrid {
-        a: a.name.clone(),
-        b: b.name.clone(),
-        source,
-    })?;
-    let (sa, sb) = rayon::join(|| a.rasterise_on(grid.clone()), || b.rasterise_on(grid.clone()));
-    let (mut na, mut nb, mut nab) = (0usize, 0usize, 0usize);
-    for (x, y) in sa.cells.iter().zip(&sb.cells) {
-        na += usize::from(*x != 0);
-        nb += usize::from(*y != 0);
-        nab += usize::from(*x != 0 && *y != 0);
-    }
-    let v = h.powi(3);
-    let share = |n: usize| if n == 0 { 0.0 } else { nab as f64 / n as f64 };
-    Ok((
-        Coverage {
-            a: a.name.clone(),
-            b: b.name.clone(),
-            a_inside_b: share(na),
-            intersection_volume: nab as f64 * v,
-        },
-        Coverage {
-            a: b.name.clone(),
-            b: a.name.clone(),
-            a_inside_b: share(nb),
-            intersection_volume: nab as f64 * v,
-        },
-    ))
-}
-
-/// Every ordered pair (A, B) with A ≠ B, A in input order, then B.
-pub fn coverage_all(gamuts: &[Gamut], voxel: f64) -> Result<Vec<Coverage>, GamutError> {
-    let n = gamuts.len();
-    let mut table: Vec<Option<Coverage>> = vec![None; n * n];
-    for i in 0..n {
-        for j in i + 1..n {
-            let (ab, ba) = coverage_pair(&gamuts[i], &gamuts[j], voxel)?;
-            table[i * n + j] = Some(ab);
-            table[j * n + i] = Some(ba);
-        }
-    }
-    Ok(table.into_iter().flatten().collect())
 }
 
 /// Which test decides whether a palette colour is printable.

@@ -42,6 +42,12 @@ use image::codecs::png::{PngDecoder, PngEncoder};
 use image::codecs::tiff::{TiffDecoder, TiffEncoder};
 use image::{ColorType, ExtendedColorType, ImageDecoder, ImageEncoder};
 
+mod cmyk_tiff;
+mod encode;
+
+use cmyk_tiff::{cmyk_info, open_cmyk, read_cmyk};
+pub use encode::{encode, RgbImage};
+
 /// Bytes a decoder may hold besides the pixels of the image (profiles, text,
 /// line buffers): 64 MiB, the PNG decoder's own default, far above the
 /// largest ICC profiles in use (a few MiB).
@@ -564,164 +570,6 @@ fn jpeg_frame_size<R: Read + Seek>(r: &mut R, len: u64) -> std::io::Result<Optio
     }
 }
 
-type TiffReader = tiff::decoder::Decoder<BufReader<File>>;
-
-/// TIFF 6.0, section 22 (and TIFF Technical Note 2): Compression 7 is JPEG
-/// with one JPEG stream per strip or tile.
-const TIFF_COMPRESSION_JPEG: u16 = 7;
-
-/// A `tiff` decoder when `path` is a TIFF whose first image is CMYK; `None`
-/// for every other file, which the image crate reads. Every TIFF, CMYK or
-/// not, has its JPEG strips or tiles checked here.
-fn open_cmyk(path: &Path, limits: &DecodeLimits) -> Result<Option<TiffReader>, RasterError> {
-    if sniff_file(path)? != Some(FileKind::Tiff) {
-        return Ok(None);
-    }
-    let reader = BufReader::new(File::open(path).map_err(read_err(path))?);
-    let mut dec = tiff::decoder::Decoder::new(reader).map_err(tiff_err(path))?;
-    let (w, h) = dec.dimensions().map_err(tiff_err(path))?;
-    limits.check(path, w, h)?;
-    let compression = dec
-        .find_tag(tiff::tags::Tag::Compression)
-        .map_err(tiff_err(path))?
-        .and_then(|v| v.into_u16().ok());
-    if compression == Some(TIFF_COMPRESSION_JPEG) {
-        check_jpeg_chunks(path, &mut dec, limits)?;
-    }
-    let photometric = dec
-        .find_tag(tiff::tags::Tag::PhotometricInterpretation)
-        .map_err(tiff_err(path))?
-        .and_then(|v| v.into_u16().ok());
-    // TIFF 6.0, section 16: PhotometricInterpretation 5 = separated (CMYK
-    // with the default InkSet).
-    if photometric != Some(tiff::tags::PhotometricInterpretation::CMYK.to_u16()) {
-        return Ok(None);
-    }
-    Ok(Some(dec))
-}
-
-/// Each JPEG stream of a JPEG-compressed TIFF must declare no more than its
-/// strip or tile holds, and all of them together at most twice the pixel
-/// limit (tiles are padded past the image's edge): the decoder allocates
-/// and decodes what each stream declares.
-fn check_jpeg_chunks(path: &Path, dec: &mut TiffReader, limits: &DecodeLimits) -> Result<(), RasterError> {
-    use tiff::tags::Tag;
-    let (w, h) = dec.dimensions().map_err(tiff_err(path))?;
-    let u32_tag = |dec: &mut TiffReader, tag| -> Result<Option<u32>, RasterError> {
-        Ok(dec
-            .find_tag(tag)
-            .map_err(tiff_err(path))?
-            .and_then(|v| v.into_u32().ok()))
-    };
-    let (offsets_tag, counts_tag, chunk) = match dec.get_chunk_type() {
-        tiff::decoder::ChunkType::Strip => {
-            let rows = u32_tag(dec, Tag::RowsPerStrip)?.unwrap_or(h).min(h);
-            (Tag::StripOffsets, Tag::StripByteCounts, (w, rows))
-        }
-        tiff::decoder::ChunkType::Tile => {
-            let tw = u32_tag(dec, Tag::TileWidth)?.unwrap_or(0);
-            let th = u32_tag(dec, Tag::TileLength)?.unwrap_or(0);
-            (Tag::TileOffsets, Tag::TileByteCounts, (tw, th))
-        }
-    };
-    let offsets = dec.get_tag_u64_vec(offsets_tag).map_err(tiff_err(path))?;
-    let counts = dec.get_tag_u64_vec(counts_tag).map_err(tiff_err(path))?;
-    let mut file = BufReader::with_capacity(4096, File::open(path).map_err(read_err(path))?);
-    let budget = limits.max_pixels.saturating_mul(2);
-    let mut decoded = 0u64;
-    for (i, (&off, &count)) in offsets.iter().zip(&counts).enumerate() {
-        file.seek(SeekFrom::Start(off)).map_err(read_err(path))?;
-        let Some((jw, jh)) = jpeg_frame_size(&mut file, count).map_err(read_err(path))? else {
-            // No frame header: the decoder reports the damage.
-            continue;
-        };
-        if jw > chunk.0 || jh > chunk.1 {
-            return Err(RasterError::Bounds {
-                path: path_text(path),
-                detail: format!(
-                    "JPEG stream {i} declares {jw} × {jh} pixels in a strip or tile of {} × {}",
-                    chunk.0, chunk.1
-                ),
-            });
-        }
-        decoded = decoded.saturating_add(u64::from(jw) * u64::from(jh));
-        if decoded > budget {
-            return Err(RasterError::Bounds {
-                path: path_text(path),
-                detail: format!(
-                    "its JPEG streams declare more than {} megapixels together",
-                    megapixel_text(budget)
-                ),
-            });
-        }
-    }
-    Ok(())
-}
-
-fn cmyk_info(path: &Path, dec: &mut TiffReader, limits: &DecodeLimits) -> Result<RasterInfo, RasterError> {
-    let p = path_text(path);
-    let (width, height) = dec.dimensions().map_err(tiff_err(path))?;
-    limits.check(path, width, height)?;
-    let bits = match dec.colortype().map_err(tiff_err(path))? {
-        tiff::ColorType::CMYK(8) => 8,
-        tiff::ColorType::CMYK(16) => 16,
-        other => {
-            return Err(RasterError::Layout {
-                path: p,
-                layout: format!("{other:?}"),
-            })
-        }
-    };
-    if width == 0 || height == 0 {
-        return Err(RasterError::Layout {
-            path: p,
-            layout: "empty (0-pixel)".to_string(),
-        });
-    }
-    // TIFF 6.0, section 8: PlanarConfiguration 2 stores each ink apart.
-    let planar = dec
-        .find_tag(tiff::tags::Tag::PlanarConfiguration)
-        .map_err(tiff_err(path))?
-        .and_then(|v| v.into_u16().ok());
-    if planar == Some(2) {
-        return Err(RasterError::Layout {
-            path: p,
-            layout: "planar CMYK".to_string(),
-        });
-    }
-    // Read before any limits are set (they apply to tag values too).
-    let icc = match dec.find_tag(tiff::tags::Tag::IccProfile).map_err(tiff_err(path))? {
-        Some(v) => Some(v.into_u8_vec().map_err(tiff_err(path))?),
-        None => None,
-    };
-    Ok(RasterInfo {
-        kind: FileKind::Tiff,
-        width,
-        height,
-        channels: 4,
-        bits,
-        has_alpha: false,
-        icc: icc.filter(|b| !b.is_empty()),
-    })
-}
-
-fn read_cmyk(path: &Path, mut dec: TiffReader, limits: &DecodeLimits) -> Result<Raster, RasterError> {
-    let info = cmyk_info(path, &mut dec, limits)?;
-    let bytes = info.pixels() * 4 * info.bytes_per_sample();
-    let mut l = tiff::decoder::Limits::default();
-    l.decoding_buffer_size = bytes;
-    l.intermediate_buffer_size = bytes.saturating_mul(2).saturating_add(1 << 20);
-    let mut dec = dec.with_limits(l);
-    let mut color = zeroed(path, bytes)?;
-    // Samples straight into the buffer, 16-bit ones in native byte order.
-    dec.read_image_bytes(&mut color).map_err(tiff_err(path))?;
-    Ok(Raster {
-        info,
-        color,
-        alpha: None,
-    })
-}
-
 /// Splits interleaved colour+alpha samples into a colour buffer (the input's,
 /// compacted in place) and an alpha plane.
 fn split_alpha(mut buf: Vec<u8>, channels: usize, bps: usize) -> (Vec<u8>, Vec<u8>) {
@@ -750,82 +598,6 @@ fn join_alpha(rgb: &[u8], alpha: &[u8], bps: usize) -> Vec<u8> {
         out.extend_from_slice(a);
     }
     out
-}
-
-/// An RGB image to be written: samples as in [`Raster::color`], 3 per pixel.
-pub struct RgbImage<'a> {
-    pub width: u32,
-    pub height: u32,
-    pub bits: u8,
-    pub rgb: &'a [u8],
-    pub alpha: Option<&'a [u8]>,
-}
-
-/// Encodes an RGB image as `kind` with `icc` embedded (PNG iCCP chunk, JPEG
-/// APP2 segments, TIFF tag 34675). `name` is the file named in errors.
-/// JPEG takes 8 bits and no alpha; PNG and TIFF take 8 or 16 bits with alpha.
-pub fn encode(name: &Path, kind: FileKind, img: &RgbImage<'_>, icc: &[u8]) -> Result<Vec<u8>, RasterError> {
-    let err = |detail: String| RasterError::Encode {
-        path: path_text(name),
-        detail,
-    };
-    let bps = usize::from(img.bits / 8);
-    let expected = img.width as usize * img.height as usize * 3 * bps;
-    if img.rgb.len() != expected || !(img.bits == 8 || img.bits == 16) {
-        return Err(err(format!(
-            "internal: {} bytes for {}x{}",
-            img.rgb.len(),
-            img.width,
-            img.height
-        )));
-    }
-    let joined;
-    let (data, color) = match img.alpha {
-        Some(a) => {
-            if a.len() * 3 != img.rgb.len() {
-                return Err(err("internal: alpha plane size".to_string()));
-            }
-            joined = join_alpha(img.rgb, a, bps);
-            let t = if bps == 1 {
-                ExtendedColorType::Rgba8
-            } else {
-                ExtendedColorType::Rgba16
-            };
-            (&joined[..], t)
-        }
-        None => (
-            img.rgb,
-            if bps == 1 {
-                ExtendedColorType::Rgb8
-            } else {
-                ExtendedColorType::Rgb16
-            },
-        ),
-    };
-    let mut out = Vec::new();
-    let e = |x: image::ImageError| err(x.to_string());
-    let u = |x: image::error::UnsupportedError| err(x.to_string());
-    match kind {
-        FileKind::Png => {
-            let mut enc = PngEncoder::new(&mut out);
-            enc.set_icc_profile(icc.to_vec()).map_err(u)?;
-            enc.write_image(data, img.width, img.height, color).map_err(e)?;
-        }
-        FileKind::Jpeg => {
-            if bps != 1 || img.alpha.is_some() {
-                return Err(err("JPEG holds 8-bit RGB without alpha only".to_string()));
-            }
-            let mut enc = JpegEncoder::new_with_quality(&mut out, 95);
-            enc.set_icc_profile(icc.to_vec()).map_err(u)?;
-            enc.write_image(data, img.width, img.height, color).map_err(e)?;
-        }
-        FileKind::Tiff => {
-            let mut enc = TiffEncoder::new(Cursor::new(&mut out));
-            enc.set_icc_profile(icc.to_vec()).map_err(u)?;
-            enc.write_image(data, img.width, img.height, color).map_err(e)?;
-        }
-    }
-    Ok(out)
 }
 
 #[cfg(test)]
