@@ -645,3 +645,33 @@ fn check_reports_outside_by_and_keeps_the_round_trip() {
     assert!(v["entries"][0]["outside_by"].is_null());
     assert!(v["gamut_test"].as_str().unwrap().contains("round trip"));
 }
+
+#[test]
+fn locator_finds_the_nearest_boundary_point_near_neutrals() {
+    // Near the neutral axis CIEDE2000 weighs a* up to 1.5 times (the G
+    // factor of Sharma, Wu and Dalal 2005, eq. 2–3), so ΔE00 can exceed
+    // ΔE*ab there and a bucket margin argued in ΔE*ab alone could skip the
+    // nearest vertex. Brute force over every boundary vertex is the check.
+    let m = press().boundary();
+    let mut worst: f64 = 0.0;
+    for l in [0.5, 2.0, 4.0, 8.0] {
+        for (a, b) in [
+            (0.0, 0.0),
+            (1.5, -1.0),
+            (-2.0, 2.0),
+            (3.0, 0.5),
+            (-0.5, -3.0),
+            (5.0, 5.0),
+        ] {
+            let lab = LabD50::new(l, a, b);
+            if press().contains(lab) {
+                continue;
+            }
+            let brute = nearest_brute_force(lab, &m.vertices);
+            let d = press().outside_by(lab);
+            worst = worst.max(d - brute);
+            assert!(d <= brute + 1e-9, "{lab:?}: locator {d} vs vertices {brute}");
+        }
+    }
+    println!("locator minus brute force, worst: {worst}");
+}

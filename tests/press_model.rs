@@ -67,7 +67,9 @@ fn de00(a: [f64; 3], b: [f64; 3]) -> f64 {
 }
 
 #[test]
-fn absolute_colorimetry_reproduces_the_aims() {
+fn self_consistency_the_profile_prints_the_aims_it_was_built_from() {
+    // Self-consistency, not an outside check: the aims are the model's own
+    // inputs; this shows the chain model → ICC tables → lcms2 keeps them.
     // ISO 12647-2:2004/Amd 1:2007, paper types 1/2 (coated), white backing,
     // D50/2°, M0 — values from memory (the C+M+Y value least certain).
     let aims: [(&str, [f64; 4], [f64; 3]); 9] = [
@@ -91,7 +93,9 @@ fn absolute_colorimetry_reproduces_the_aims() {
 }
 
 #[test]
-fn tone_value_increase_at_half_coverage() {
+fn self_consistency_tone_value_increase_at_half_coverage_is_the_designed_one() {
+    // Self-consistency: the curves are calibrated to the designed TVI; this
+    // shows the calibration and the written tables hold it.
     // Murray–Davies tone value (ISO 12647-1 / ISO 13655) in the channel each
     // ink absorbs most (C → X, M → Y, Y → Z, K → Y; the colorimetric stand-in
     // for status densities, common practice); designed TVI at 50 %: 14 %
@@ -242,32 +246,28 @@ fn round_trip_through_both_tables() {
 
 #[test]
 fn rebuild_matches_the_committed_profile() {
-    // Same inputs, same bytes: the build has no clock, no randomness and no
-    // dependence on the thread schedule. Floating-point results may still
-    // differ on another CPU or libm, so a mismatch is told apart: the header
-    // and tag table must agree exactly, and table words within ±1 code.
+    // One rule: the committed profile is exactly what the build makes from
+    // the committed definition. The build has no clock, no randomness and no
+    // dependence on the thread schedule. After a deliberate change to the
+    // model or the tables, regenerate it with
+    // `cargo run --release -- build-press offset-coated --out profiles/offset-coated.icc`.
     let rebuilt = build_icc(&offset_coated()).expect("build");
-    if rebuilt == OFFSET_COATED_ICC {
-        return;
-    }
-    assert_eq!(rebuilt.len(), OFFSET_COATED_ICC.len(), "size differs");
-    assert_eq!(&rebuilt[..84], &OFFSET_COATED_ICC[..84], "header differs");
-    let tags = tag_table(&rebuilt);
-    assert_eq!(tags, tag_table(OFFSET_COATED_ICC));
-    let start = 132 + 12 * tags.len();
-    let mut differing = 0;
-    for (a, b) in rebuilt[start..]
-        .chunks_exact(2)
-        .zip(OFFSET_COATED_ICC[start..].chunks_exact(2))
-    {
-        let (a, b) = (
-            u16::from_be_bytes([a[0], a[1]]) as i32,
-            u16::from_be_bytes([b[0], b[1]]) as i32,
+    assert_eq!(
+        rebuilt.len(),
+        OFFSET_COATED_ICC.len(),
+        "size differs; regenerate the profile"
+    );
+    if let Some(at) = rebuilt.iter().zip(OFFSET_COATED_ICC).position(|(a, b)| a != b) {
+        let tags = tag_table(OFFSET_COATED_ICC);
+        let tag = tags
+            .iter()
+            .find(|t| (t.offset..t.offset + t.size).contains(&at))
+            .map_or("header or tag table".to_string(), |t| format!("tag {}", t.sig));
+        panic!(
+            "the rebuilt profile differs from profiles/offset-coated.icc at byte {at} ({tag}); \
+             regenerate it with `cargo run --release -- build-press offset-coated --out profiles/offset-coated.icc`"
         );
-        assert!((a - b).abs() <= 1, "table word differs by more than 1 code");
-        differing += usize::from(a != b);
     }
-    println!("rebuild differs from the committed profile in {differing} words (±1 code)");
 }
 
 #[test]

@@ -761,3 +761,32 @@ fn cmyk_tiff_with_an_rgb_profile_is_refused() {
     );
     assert!(!out.exists() || listing(&out).is_empty(), "{:?}", listing(&out));
 }
+
+#[test]
+fn cmyk_engines_have_no_table_and_proof_by_table_request_exactly() {
+    // A CMYK image has no ΔE00 table (its values come from the exact model);
+    // asking for the table method must give the exact values, not index an
+    // empty grid. Expected values: the exact model on the same pixels.
+    let press = builtin("offset-coated");
+    let srgb = builtin("srgb");
+    let e = ProofEngine::new(&press, 4, 8, &srgb, &press, mapping(true)).unwrap();
+    assert!(e.table().is_none());
+    assert_eq!(e.channels(), 4);
+    let color: Vec<u8> = INKS.iter().flatten().copied().collect();
+    let r = Raster {
+        info: raster::RasterInfo {
+            kind: raster::FileKind::Tiff,
+            width: INKS.len() as u32,
+            height: 1,
+            channels: 4,
+            bits: 8,
+            has_alpha: false,
+            icc: None,
+        },
+        color,
+        alpha: None,
+    };
+    let by_table = e.run(&r, None, Method::Table);
+    let exact = e.run(&r, None, Method::Exact);
+    assert_eq!(by_table.tally.summary(), exact.tally.summary());
+}

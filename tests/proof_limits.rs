@@ -449,7 +449,7 @@ fn proof_over_its_own_samples_matches_the_separate_proof() {
                 kind: FileKind::Png,
                 width: (samples.len() / px) as u32,
                 height: 1,
-                channels: engine.table().channels(),
+                channels: engine.channels(),
                 bits: if px == 6 { 16 } else { 8 },
                 has_alpha: false,
                 icc: None,

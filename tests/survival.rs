@@ -163,6 +163,26 @@ fn repair_invariants_hold_on_the_demo_palettes() {
             let (inside, _) = gamut.judge(inkfit::color::LabD50::from_array(lab));
             assert!(inside, "{file}: {} outside", e.name);
         }
+        // Repair must help: the closest printed pair moves apart and fewer
+        // checks fail (a repair that changes nothing would fail here).
+        println!(
+            "{file}: closest printed pair {} → {}, problems {} → {}",
+            r.before.separation.min_print,
+            r.after.separation.min_print,
+            r.before.problems.len(),
+            r.after.problems.len()
+        );
+        assert!(
+            r.after.separation.min_print > r.before.separation.min_print,
+            "{file}: separation did not improve"
+        );
+        assert!(
+            r.after.problems.len() < r.before.problems.len(),
+            "{file}: no fewer failing checks"
+        );
+        // Every entry of the repaired palette prints inside the gamut by the
+        // check's own test as well.
+        assert!(after.entries.iter().all(|e| e.in_gamut), "{file}");
         // The floor holds, or the report says what does not.
         let floor_ok = r.after.separation.min_print >= opts.survival.min_separation;
         assert!(floor_ok || !r.unmet.is_empty(), "{file}");

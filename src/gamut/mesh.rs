@@ -254,10 +254,15 @@ const BUCKET: f64 = 6.0;
 /// At least this many of the nearest buckets are searched vertex by vertex …
 const BUCKETS_SEARCHED: usize = 12;
 /// … and every bucket whose centroid is within this ΔE00 of the nearest
-/// centroid: a bucket's vertices lie within half its diagonal (√3·6/2 ≈ 5.2
-/// CIELAB units) of its centroid, so a margin above twice that cannot skip
-/// the bucket holding the nearest vertex where ΔE00 ≤ ΔE*ab.
-const BUCKET_MARGIN: f64 = 11.0;
+/// centroid. A bucket's vertices lie within r = √3·6/2 ≈ 5.2 CIELAB units
+/// of its centroid, so the bucket of the nearest vertex cannot be skipped
+/// when the margin is at least 2·f·r, with f the largest ratio ΔE00 / ΔE*ab
+/// over differences of that size. ΔE00 is not bounded by ΔE*ab: near the
+/// neutral axis a* is stretched by up to 1 + G = 1.5, and the rotation term
+/// R_T (|R_T| ≤ 2) can add as much again as the chroma and hue terms
+/// (Sharma, Wu and Dalal 2005, eqs. 2–3 and 19–22); with S_L, S_C, S_H ≥ 1
+/// that gives f ≤ 1.5·√2 ≈ 2.13. The margin uses f = 2.2.
+const BUCKET_MARGIN: f64 = 2.0 * 2.2 * 5.2;
 /// Barycentric steps per triangle edge in the final refinement.
 const REFINE_STEPS: usize = 8;
 

@@ -1,7 +1,8 @@
 //! Inversion of the printing model (media-relative CIELAB → CMYK) with
-//! black generation and the total area coverage limit: the GCR curve, the
-//! projection onto the printable ink set, the bounded least-squares solver
-//! and the CIEDE2000 residual form used for the final refinement.
+//! black generation (the condition's [`super::spec::GcrCurve`]) and the total
+//! area coverage limit: the projection onto the printable ink set, the
+//! bounded least-squares solver and the CIEDE2000 residual form used for the
+//! final refinement.
 //!
 //! The problem solved per target t (media-relative CIELAB):
 //!

@@ -28,7 +28,7 @@
 //!   (its most chromatic colour) in that hue leaf: distances up to 90 % of
 //!   the press boundary are kept, the rest of the way out to the source
 //!   boundary is squeezed linearly into the last 10 %.
-//! - **Saturation** (B2A2): keep chroma first, our own choice for maps and
+//! - **Saturation** (B2A2): keep chroma first, a design choice of inkfit for maps and
 //!   business graphics: the same hue-preserving clip with lightness weighted
 //!   by a quarter ([`SATURATION_LIGHTNESS_WEIGHT`]), so an out-of-gamut
 //!   colour gives up lightness before chroma and saturated screen colours
@@ -67,7 +67,7 @@ pub const LEVELS: usize = 200;
 /// of its chroma. Weighting lightness by one half keeps at least a third of
 /// the chroma of every saturated sRGB colour (measured on 36 hues at two
 /// saturations, `examples/intent_survey.rs`) at a lightness shift designers
-/// accept more readily than a washed-out colour (our choice).
+/// accept more readily than a washed-out colour (a design choice).
 pub const RELATIVE_LIGHTNESS_WEIGHT: f64 = 0.5;
 
 /// The same weight for the saturation intent: a quarter, chroma first.
@@ -85,7 +85,7 @@ pub const SGCK_KNEE: f64 = 0.9;
 /// lightness curve of SGCK (Braun & Fairchild 1999). They tabulate both
 /// against the destination's black; that table is not at hand, so a gentle
 /// curve is used: centred on mid-grey and wide enough to stay close to a
-/// linear compression (our choice).
+/// linear compression (a design choice).
 pub const SIGMOID_CENTRE: f64 = 50.0;
 pub const SIGMOID_WIDTH: f64 = 50.0;
 

@@ -21,9 +21,12 @@
 //! 8-bit value or 4097 nodes for 16-bit grey). The accuracy of that shortcut
 //! against the exact per-pixel computation is tested in `tests/proof.rs`.
 //!
-//! The gamut test is the one [`crate::swatch::check`] uses: the round trip
-//! CIELAB → press → CIELAB (relative colorimetric, no BPC) returns within
-//! [`NOTICEABLE_DE00`] ΔE00.
+//! A pixel counts as outside the press gamut when the colorimetric round
+//! trip CIELAB → press → CIELAB (relative colorimetric, no BPC) moves it by
+//! more than [`NOTICEABLE_DE00`] ΔE00: the `round-trip` test of `check`, not
+//! its default boundary test, since a boundary lookup per pixel would cost
+//! far more than the table shortcut saves. A pixel whose round trip gives no
+//! number counts as outside.
 //!
 //! # CMYK images
 //!
@@ -151,7 +154,8 @@ pub struct ProofEngine {
     bits: u8,
     proof: SharedTransform,
     exact: ExactModel,
-    table: DeltaTable,
+    /// `None` for CMYK images.
+    table: Option<DeltaTable>,
 }
 
 impl ProofEngine {
@@ -178,7 +182,7 @@ impl ProofEngine {
                 intent: shown,
             })?;
             let exact = ExactModel::for_press_data(input, screen, mapping)?;
-            let table = DeltaTable::build(&exact, 0);
+            let table = None;
             return Ok(Self {
                 channels,
                 bits,
@@ -215,8 +219,14 @@ impl ProofEngine {
         &self.exact
     }
 
-    pub fn table(&self) -> &DeltaTable {
-        &self.table
+    /// The ΔE00 table; `None` for CMYK images, which are evaluated exactly.
+    pub fn table(&self) -> Option<&DeltaTable> {
+        self.table.as_ref()
+    }
+
+    /// Device channels of the images this engine proofs (1 grey, 3 RGB, 4 CMYK).
+    pub fn channels(&self) -> usize {
+        self.channels
     }
 
     fn in_px(&self) -> usize {
@@ -262,9 +272,9 @@ impl ProofEngine {
         if self.channels == 4 {
             return self.press_deltas(c);
         }
-        match method {
-            Method::Exact => self.exact.evaluate(&self.normalised(c)),
-            Method::Table => {
+        match (method, &self.table) {
+            (Method::Exact, _) | (Method::Table, None) => self.exact.evaluate(&self.normalised(c)),
+            (Method::Table, Some(table)) => {
                 let max = if self.bits == 8 { 255.0 } else { 65535.0 };
                 let v: Vec<u32> = if self.bits == 8 {
                     c.iter().map(|&x| u32::from(x)).collect()
@@ -274,11 +284,9 @@ impl ProofEngine {
                         .collect()
                 };
                 if self.channels == 1 {
-                    v.iter().map(|&g| self.table.grey(g, max)).collect()
+                    v.iter().map(|&g| table.grey(g, max)).collect()
                 } else {
-                    v.chunks_exact(3)
-                        .map(|p| self.table.rgb(p[0], p[1], p[2], max))
-                        .collect()
+                    v.chunks_exact(3).map(|p| table.rgb(p[0], p[1], p[2], max)).collect()
                 }
             }
         }
@@ -405,13 +413,16 @@ impl ProofEngine {
                 let v = self.press_deltas(s);
                 accumulate(&v, m, heat, t);
             }
-            Method::Table => match (self.channels, self.bits) {
-                (1, 8) => self.fused::<1, 1>(s, m, heat, t),
-                (1, _) => self.fused::<1, 2>(s, m, heat, t),
-                (_, 8) => self.fused::<3, 1>(s, m, heat, t),
-                _ => self.fused::<3, 2>(s, m, heat, t),
-            },
-            Method::Exact => {
+            Method::Table if self.table.is_some() => {
+                let table = self.table.as_ref().expect("checked by the guard");
+                match (self.channels, self.bits) {
+                    (1, 8) => self.fused::<1, 1>(table, s, m, heat, t),
+                    (1, _) => self.fused::<1, 2>(table, s, m, heat, t),
+                    (_, 8) => self.fused::<3, 1>(table, s, m, heat, t),
+                    _ => self.fused::<3, 2>(table, s, m, heat, t),
+                }
+            }
+            Method::Table | Method::Exact => {
                 let v = self.chunk_deltas(s, Method::Exact);
                 accumulate(&v, m, heat, t);
             }
@@ -423,6 +434,7 @@ impl ProofEngine {
     #[inline(always)]
     fn fused<const CH: usize, const BPS: usize>(
         &self,
+        table: &DeltaTable,
         src: &[u8],
         mut map: Option<&mut [u8]>,
         heat: Option<&HeatScale>,
@@ -449,13 +461,13 @@ impl ProofEngine {
             if key != prev_key {
                 prev_key = key;
                 let v = if CH == 1 {
-                    self.table.grey(a, max)
+                    table.grey(a, max)
                 } else {
-                    self.table.rgb(a, b, c, max)
+                    table.rgb(a, b, c, max)
                 };
                 de = v[0];
                 bin = bin_of(de);
-                outside = v[1] > limit;
+                outside = beyond(v[1], limit);
                 if let Some(h) = heat {
                     rgb = h.color_of_bin(bin);
                 }
@@ -481,10 +493,17 @@ fn map_chunks(map: Option<&mut [u8]>, count: usize) -> Vec<Option<&mut [u8]>> {
     }
 }
 
+/// Whether a round-trip ΔE00 puts a pixel outside the gamut: beyond `limit`,
+/// or not a number (no proof of printability).
+#[inline(always)]
+fn beyond(round_trip: f32, limit: f32) -> bool {
+    round_trip > limit || round_trip.is_nan()
+}
+
 fn accumulate(v: &[[f32; 2]], mut map: Option<&mut [u8]>, heat: Option<&HeatScale>, t: &mut Tally) {
     let limit = NOTICEABLE_DE00 as f32;
     for (i, d) in v.iter().enumerate() {
-        t.add(d[0], d[1] > limit);
+        t.add(d[0], beyond(d[1], limit));
         if let (Some(m), Some(h)) = (map.as_deref_mut(), heat) {
             m[3 * i..3 * i + 3].copy_from_slice(&h.color_of_bin(bin_of(d[0])));
         }

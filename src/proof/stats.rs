@@ -17,12 +17,21 @@ pub const BINS: usize = 10_001;
 /// The thresholds reported as shares "above".
 pub const THRESHOLDS: [f64; 5] = [1.0, 2.0, 3.0, 5.0, 10.0];
 
-/// The histogram bin of a ΔE00 value (0.01 wide, rounded to nearest).
+/// The histogram bin of a ΔE00 value (0.01 wide, rounded to nearest). A
+/// value that is not a number (a difference that could not be computed)
+/// falls in the last bin, with the largest differences, never in the first.
 #[inline]
 pub fn bin_of(de: f32) -> usize {
-    let q = (de * 100.0 + 0.5) as usize; // `as` saturates; NaN → 0
+    if de.is_nan() {
+        return BINS - 1;
+    }
+    let q = (de * 100.0 + 0.5) as usize; // `as` saturates
     q.min(BINS - 1)
 }
+
+/// The top of the ΔE00 scale, where a difference that is not a number is
+/// counted in the mean and the maximum.
+pub const TOP_DE00: f32 = ((BINS - 1) as f64 * BIN) as f32;
 
 /// Running totals over some pixels; merge with [`Tally::merge`].
 #[derive(Clone, Debug)]
@@ -54,6 +63,7 @@ impl Tally {
     /// Adds one pixel.
     #[inline]
     pub fn add(&mut self, de: f32, outside: bool) {
+        let de = if de.is_nan() { TOP_DE00 } else { de };
         self.hist[bin_of(de)] += 1;
         self.sum += f64::from(de);
         self.max = self.max.max(de);
@@ -162,6 +172,21 @@ pub struct DeltaStats {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_difference_that_is_not_a_number_counts_as_the_largest() {
+        // Property: NaN must never read as "no difference" (bin 0).
+        assert_eq!(bin_of(f32::NAN), BINS - 1);
+        assert_eq!(bin_of(0.004), 0);
+        assert_eq!(bin_of(1e9), BINS - 1);
+        let mut t = Tally::new();
+        t.add(0.5, false);
+        t.add(f32::NAN, false);
+        let s = t.summary();
+        assert_eq!(s.max, 100.0);
+        assert_eq!(s.mean, 50.25);
+        assert_eq!(t.percentile(1.0), 100.0);
+    }
 
     #[test]
     fn percentiles_match_a_sorted_nearest_rank() {

@@ -17,16 +17,13 @@ pub struct DeltaTable {
 impl DeltaTable {
     /// Evaluates `model` at `n` evenly spaced device values per axis
     /// (0, 1/(n−1), …, 1).
-    pub fn build(model: &ExactModel, n: usize) -> Self {
+    /// At least 2 nodes per axis, so every lookup has a cell. `None` for a
+    /// CMYK model: CMYK is evaluated per pixel (see the module notes).
+    pub fn build(model: &ExactModel, n: usize) -> Option<Self> {
         let n = n.max(2);
         let ch = model.channels;
         if ch == 4 {
-            // CMYK is evaluated per pixel (see the module notes).
-            return Self {
-                channels: ch,
-                n: 0,
-                nodes: Vec::new(),
-            };
+            return None;
         }
         let count = if ch == 1 { n } else { n * n * n };
         let step = 1.0 / (n - 1) as f64;
@@ -47,15 +44,14 @@ impl DeltaTable {
             .par_chunks(ch * 4096)
             .flat_map_iter(|c| model.evaluate(c))
             .collect();
-        Self { channels: ch, n, nodes }
+        Some(Self { channels: ch, n, nodes })
     }
 
     pub fn nodes_per_axis(&self) -> usize {
         self.n
     }
 
-    /// Device channels of the table's input (1 grey, 3 RGB; 4 CMYK, which
-    /// has no nodes).
+    /// Device channels of the table's input (1 grey, 3 RGB).
     pub fn channels(&self) -> usize {
         self.channels
     }

@@ -336,9 +336,13 @@ fn optimise(mut pb: Problem<'_>, iterations: usize) -> Vec<LabD50> {
     s.x
 }
 
-fn to_hex(rgb: [f64; 3]) -> String {
-    let c = |v: f64| (v.clamp(0.0, 1.0) * 255.0).round() as u8;
-    format!("#{:02x}{:02x}{:02x}", c(rgb[0]), c(rgb[1]), c(rgb[2]))
+/// 8-bit code values of encoded screen RGB (0..1, clipped, rounded);
+/// `None` when a channel is not a number, so that a failed optimisation
+/// never writes black (or any colour) into the palette.
+fn codes(rgb: [f64; 3]) -> Option<[u8; 3]> {
+    rgb.iter()
+        .all(|v| v.is_finite())
+        .then(|| rgb.map(|v| (v.clamp(0.0, 1.0) * 255.0).round() as u8))
 }
 
 /// Repairs `palette` for `press` as seen on `screen`; `gamut` is the press
@@ -404,12 +408,15 @@ pub fn repair(
                 if delta_e00(x[i], o[i]) < UNCHANGED_BELOW {
                     return e.clone();
                 }
-                let hex = to_hex(rgb[i]);
-                let c = |k: usize| u8::from_str_radix(&hex[1 + 2 * k..3 + 2 * k], 16).map_or(0.0, |v| v as f64 / 255.0);
+                // Kept as it was when the optimiser gave no number; the
+                // checks after repair then still report it.
+                let Some(b) = codes(rgb[i]) else {
+                    return e.clone();
+                };
                 Entry {
                     name: e.name.clone(),
-                    input: hex.clone(),
-                    color: ColorInput::ScreenRgb([c(0), c(1), c(2)]),
+                    input: format!("#{:02x}{:02x}{:02x}", b[0], b[1], b[2]),
+                    color: ColorInput::ScreenRgb(b.map(|v| f64::from(v) / 255.0)),
                     line: e.line,
                 }
             })
@@ -484,5 +491,20 @@ impl RepairReport {
                 press_cmyk: e.press_cmyk,
             })
             .collect()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::codes;
+
+    #[test]
+    fn code_values_round_clip_and_refuse_what_is_not_a_number() {
+        // 8-bit encoding as round(255·v) on 0..1 (IEC 61966-2-1, 5.2 uses
+        // the same scaling of encoded values to 8 bits).
+        assert_eq!(codes([1.2, -0.1, 0.5]), Some([255, 0, 128]));
+        assert_eq!(codes([0.2, 0.4, 0.6]), Some([51, 102, 153]));
+        assert_eq!(codes([f64::NAN, 0.0, 0.0]), None);
+        assert_eq!(codes([0.0, f64::INFINITY, 0.0]), None);
     }
 }

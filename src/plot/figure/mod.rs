@@ -101,6 +101,14 @@ fn hex_of(lab: [f64; 3]) -> String {
 /// chromaticity scaled to its largest channel, clipped, and mixed 18 : 82
 /// with white. Not the colour itself, only a hint of its hue.
 fn tint_of(c: Xy) -> String {
+    // A chromaticity with y = 0 (or not a number) has no XYZ of Y = 1; it
+    // gets the tint of the equal-energy point instead of a black wedge.
+    if !(c.y > 1e-9 && c.x.is_finite()) {
+        return tint_of(Xy {
+            x: 1.0 / 3.0,
+            y: 1.0 / 3.0,
+        });
+    }
     let y = 1.0;
     let xyz = [c.x * y / c.y, y, (1.0 - c.x - c.y) * y / c.y];
     let lab = LabD50::from_xyz(crate::color::Xyz::new(xyz[0], xyz[1], xyz[2]));
@@ -511,5 +519,37 @@ pub fn render(fig: &Figure) -> String {
         PlotKind::Xy | PlotKind::Uv => chromaticity::chromaticity(fig),
         PlotKind::Ab => sections::slices(fig),
         PlotKind::Leaf => sections::leaf(fig),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn tints_are_pale_and_defined_where_y_is_zero() {
+        // Property: every tint is a valid pale colour (each channel at least
+        // 0.82 of full scale by construction), also for y = 0, where
+        // XYZ = (x/y, 1, (1−x−y)/y) is undefined.
+        for c in [
+            Xy { x: 0.3, y: 0.0 },
+            Xy { x: f64::NAN, y: 0.3 },
+            Xy { x: 0.17, y: 0.005 },
+            Xy { x: 0.7, y: 0.29 },
+        ] {
+            let t = tint_of(c);
+            assert_eq!(t.len(), 7, "{t}");
+            for k in 0..3 {
+                let v = u8::from_str_radix(&t[1 + 2 * k..3 + 2 * k], 16).unwrap();
+                assert!(v >= 209, "{c:?}: {t}");
+            }
+        }
+        assert_eq!(
+            tint_of(Xy { x: 0.3, y: 0.0 }),
+            tint_of(Xy {
+                x: 1.0 / 3.0,
+                y: 1.0 / 3.0
+            })
+        );
     }
 }
