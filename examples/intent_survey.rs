@@ -67,7 +67,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         let (mut dh_ok, mut dh_ab, mut kept, mut de) = (Vec::new(), Vec::new(), Vec::new(), Vec::new());
         for e in r.entries.iter().filter(|e| !e.in_gamut) {
             let s = LabD50::from_array(e.screen_lab);
-            let p = LabD50::from_array(e.proof_lab);
+            let p = LabD50::from_array(e.printed_lab);
             let (so, po) = (lab_d50_to_oklab(s), lab_d50_to_oklab(p));
             dh_ok.push(hue_diff(hue(so[1], so[2]), hue(po[1], po[2])));
             dh_ab.push(hue_diff(hue(s.a, s.b), hue(p.a, p.b)));

@@ -41,6 +41,7 @@
 #[cfg(feature = "cli")]
 pub mod cli;
 pub mod color;
+pub mod conditions;
 pub mod gamut;
 pub mod icc;
 pub mod io;

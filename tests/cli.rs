@@ -45,12 +45,17 @@ fn check_json_has_the_documented_keys_and_a_consistent_summary() {
         "intent",
         "bpc",
         "tolerance",
+        "paper_white",
+        "gamut_test",
+        "gamut_test_method",
+        "notes",
         "ink_limit",
         "entries",
         "summary",
     ] {
         assert!(v.get(k).is_some(), "key {k}");
     }
+    assert_eq!(v["gamut_test"], "boundary");
     assert_eq!(v["intent"], "relative");
     assert_eq!(v["bpc"], true);
     let entries = v["entries"].as_array().unwrap();
@@ -66,7 +71,7 @@ fn check_json_has_the_documented_keys_and_a_consistent_summary() {
             "screen_lab",
             "press_cmyk",
             "ink_total",
-            "proof_lab",
+            "printed_lab",
             "delta_e00",
             "in_gamut",
             "within_tolerance",
@@ -148,8 +153,8 @@ fn every_intent_and_paper_white_run() {
     let pw = json(&run(&["check", &demo("density.txt"), "--json", "--paper-white"]));
     // The lightest step printed on the paper's own white is darker than the
     // media-relative print: the paper is not a perfect diffuser.
-    let l_rel = rel["entries"][0]["proof_lab"][0].as_f64().unwrap();
-    let l_pw = pw["entries"][0]["proof_lab"][0].as_f64().unwrap();
+    let l_rel = rel["entries"][0]["printed_lab"][0].as_f64().unwrap();
+    let l_pw = pw["entries"][0]["printed_lab"][0].as_f64().unwrap();
     assert!(l_pw < l_rel - 1.0, "paper white {l_pw} vs relative {l_rel}");
 }
 
@@ -500,7 +505,7 @@ fn a_press_colour_over_the_ink_limit_is_as_far_outside_as_its_printed_colour() {
     let p = temp_file(dir.path(), "rich.txt", b"device-cmyk(100% 100% 100% 100%) Rich black\n");
     let v = json(&run(&["check", p.to_str().unwrap(), "--json"]));
     let rich = &v["entries"][0];
-    let lab: Vec<f64> = rich["proof_lab"]
+    let lab: Vec<f64> = rich["printed_lab"]
         .as_array()
         .unwrap()
         .iter()

@@ -643,7 +643,8 @@ fn check_reports_outside_by_and_keeps_the_round_trip() {
         .unwrap();
     let v: Value = serde_json::from_slice(&o.stdout).unwrap();
     assert!(v["entries"][0]["outside_by"].is_null());
-    assert!(v["gamut_test"].as_str().unwrap().contains("round trip"));
+    assert_eq!(v["gamut_test"], "round-trip");
+    assert!(v["gamut_test_method"].as_str().unwrap().contains("round trip"));
 }
 
 #[test]

@@ -25,13 +25,13 @@ use clap::Args;
 
 use super::{Error, Outcome};
 use super::{IntentArg, ProfileArgs};
-use crate::color::delta::NOTICEABLE_DE00;
+use crate::conditions::{Conditions, GamutTest};
 use crate::icc::transform::PressMapping;
 use crate::icc::{Direction, IccError, IccProfile, Origin};
 use crate::io::Outputs;
 use crate::proof::heat::HeatScale;
 use crate::proof::raster::{self, DecodeLimits, FileKind, Raster, RasterError, RasterInfo, RgbImage};
-use crate::proof::result::{ImageReport, ProfileSource, ProofReport};
+use crate::proof::result::{Channels, ImageReport, ProfileSource, ProofReport};
 use crate::proof::{check_embedded, Method, ProofEngine};
 use crate::swatch::check::DEFAULT_TOLERANCE;
 
@@ -415,16 +415,7 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         notes.push("alpha is carried over unchanged; statistics count every pixel whatever its alpha".to_string());
     }
     let r = ProofReport {
-        screen: screen.name.clone(),
-        press: press.name.clone(),
-        intent: mapping.intent,
-        bpc: mapping.bpc,
-        paper_white: mapping.paper_white,
-        tolerance: a.tolerance,
-        gamut_test: format!(
-            "round trip CIELAB → press → CIELAB (relative colorimetric, no BPC) within ΔE00 {NOTICEABLE_DE00:.1}"
-        ),
-        notes,
+        conditions: Conditions::new(&screen, &press, mapping, a.tolerance, GamutTest::RoundTrip, None, notes),
         images,
     };
     if a.json {
@@ -580,11 +571,7 @@ fn proof_one(job: &Job, ctx: &Work<'_>) -> Result<ImageReport, Error> {
         width: w,
         height: h,
         bits: job.info.bits,
-        channels: match job.info.channels {
-            1 => "grey",
-            4 => "cmyk",
-            _ => "rgb",
-        },
+        channels: Channels::of_count(job.info.channels),
         alpha: job.info.has_alpha,
         profile: job.profile.clone(),
         profile_source: job.source,

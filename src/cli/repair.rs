@@ -148,7 +148,7 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
     };
     let (r, _, _) = repair(&palette, &screen, &press, &gamut, &opts)?;
     let format = Format::of_path(&a.palette);
-    let heading = text_heading(&r.press, &r.screen);
+    let heading = text_heading(&r.conditions.press, &r.conditions.screen);
     outputs.stage(&a.out, |w| rewrite(w, format, &text, &r.rewrites(), &heading))?;
     outputs.commit()?;
     if a.json {

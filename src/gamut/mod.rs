@@ -41,6 +41,7 @@ use serde::Serialize;
 
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
+pub use crate::conditions::GamutTest;
 use crate::icc::header::{self, Signature};
 use crate::icc::transform::{self, Shared, Side};
 use crate::icc::{inspect, IccProfile, RenderingIntent};
@@ -533,16 +534,6 @@ fn hue_sectors(samples: &[Px3]) -> Vec<HueSector> {
             }
         })
         .collect()
-}
-
-/// Which test decides whether a palette colour is printable.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum GamutTest {
-    /// CIELAB → press → CIELAB returns within a ΔE00 threshold.
-    RoundTrip,
-    /// Inside the press gamut's boundary, or within [`NOTICEABLE_DE00`](crate::color::delta::NOTICEABLE_DE00) of it.
-    Boundary,
 }
 
 impl Gamut {

@@ -47,10 +47,27 @@ pub struct IntentTables {
     pub from_pcs: TableReport,
 }
 
+/// How an intent and direction is served by a profile.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum TableStatus {
+    /// A table of its own.
+    Own,
+    /// A tag whose data is the same as another's (shared offsets).
+    SameAs,
+    /// No tag; lcms2 uses another intent's table.
+    FallsBack,
+    /// A matrix/TRC model, colorimetric.
+    Matrix,
+    /// Nothing serves it.
+    Missing,
+}
+
+/// One intent and direction of a profile: its status and tags.
 #[derive(Clone, Debug, Serialize)]
 pub struct TableReport {
-    /// "own", "same-as", "falls-back", "matrix" or "missing".
-    pub status: &'static str,
+    /// How it is served.
+    pub status: TableStatus,
     pub tag: Option<String>,
     /// For "same-as" and "falls-back": the tag that actually serves.
     pub served_by: Option<String>,
@@ -68,27 +85,27 @@ pub struct Primaries {
 fn table_report(u: TableUse) -> TableReport {
     match u {
         TableUse::Own(t) => TableReport {
-            status: "own",
+            status: TableStatus::Own,
             tag: Some(t.to_string()),
             served_by: None,
         },
         TableUse::SameAs { tag, other } => TableReport {
-            status: "same-as",
+            status: TableStatus::SameAs,
             tag: Some(tag.to_string()),
             served_by: Some(other.to_string()),
         },
         TableUse::FallsBackTo(t) => TableReport {
-            status: "falls-back",
+            status: TableStatus::FallsBack,
             tag: None,
             served_by: Some(t.to_string()),
         },
         TableUse::Matrix => TableReport {
-            status: "matrix",
+            status: TableStatus::Matrix,
             tag: None,
             served_by: None,
         },
         TableUse::Missing => TableReport {
-            status: "missing",
+            status: TableStatus::Missing,
             tag: None,
             served_by: None,
         },

@@ -146,7 +146,7 @@ impl Swatch {
             .map(|e| Swatch {
                 name: e.name.clone(),
                 screen_lab: e.screen_lab,
-                printed_lab: Some(e.proof_lab),
+                printed_lab: Some(e.printed_lab),
                 in_gamut: Some(e.in_gamut),
             })
             .collect()

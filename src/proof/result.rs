@@ -4,7 +4,7 @@
 use serde::Serialize;
 
 use super::stats::DeltaStats;
-use crate::icc::RenderingIntent;
+use crate::conditions::Conditions;
 
 /// Where the profile describing an image's pixels came from.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
@@ -16,6 +16,29 @@ pub enum ProfileSource {
     Assumed,
 }
 
+/// The colour channels of an input image.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Channels {
+    /// One grey channel.
+    Grey,
+    /// Red, green, blue.
+    Rgb,
+    /// Cyan, magenta, yellow, black: press data.
+    Cmyk,
+}
+
+impl Channels {
+    /// The layout of `n` device channels (1 grey, 4 CMYK, else RGB).
+    pub fn of_count(n: usize) -> Self {
+        match n {
+            1 => Channels::Grey,
+            4 => Channels::Cmyk,
+            _ => Channels::Rgb,
+        }
+    }
+}
+
 #[derive(Clone, Debug, Serialize)]
 pub struct ImageReport {
     pub input: String,
@@ -25,8 +48,8 @@ pub struct ImageReport {
     pub width: u32,
     pub height: u32,
     pub bits: u8,
-    /// "rgb", "grey" or "cmyk" (of the input; proofs are always RGB).
-    pub channels: &'static str,
+    /// The input's colour channels (proofs are always RGB).
+    pub channels: Channels,
     pub alpha: bool,
     /// The profile the input pixels were read in.
     pub profile: String,
@@ -38,13 +61,9 @@ pub struct ImageReport {
 
 #[derive(Clone, Debug, Serialize)]
 pub struct ProofReport {
-    pub screen: String,
-    pub press: String,
-    pub intent: RenderingIntent,
-    pub bpc: bool,
-    pub paper_white: bool,
-    pub tolerance: f64,
-    pub gamut_test: String,
-    pub notes: Vec<String>,
+    /// Profiles, mapping, tolerance (of the 95th percentile), gamut test
+    /// and notes.
+    #[serde(flatten)]
+    pub conditions: Conditions,
     pub images: Vec<ImageReport>,
 }

@@ -15,7 +15,7 @@ use serde::Serialize;
 use crate::precision::fixed;
 
 use crate::icc::builtin::BuiltinInfo;
-use crate::icc::inspect::{ProfileReport, TableReport};
+use crate::icc::inspect::{ProfileReport, TableReport, TableStatus};
 use crate::swatch::check::{CheckReport, InkLimitSource};
 use table::{Align, Table, Tone};
 
@@ -32,14 +32,14 @@ pub fn lab3(v: [f64; 3]) -> String {
 
 pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Result<()> {
     writeln!(w, "palette  {}", r.palette)?;
-    writeln!(w, "screen   {}", r.screen)?;
-    writeln!(w, "press    {}", r.press)?;
+    writeln!(w, "screen   {}", r.conditions.screen)?;
+    writeln!(w, "press    {}", r.conditions.press)?;
     writeln!(
         w,
         "mapping  {}, black point compensation {}{}",
-        r.intent,
-        if r.bpc { "on" } else { "off" },
-        if r.paper_white {
+        r.conditions.intent,
+        if r.conditions.bpc { "on" } else { "off" },
+        if r.conditions.paper_white {
             "; print shown on the paper's own white (absolute colorimetric)"
         } else {
             ""
@@ -48,9 +48,9 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
     writeln!(
         w,
         "limit    ΔE00 {} (a rule of thumb, not a standard)",
-        fixed(r.tolerance, 1)
+        fixed(r.conditions.tolerance, 1)
     )?;
-    writeln!(w, "gamut    {}", r.gamut_test)?;
+    writeln!(w, "gamut    {}", r.conditions.gamut_test_method)?;
     match r.ink_limit {
         Some(l) => writeln!(
             w,
@@ -63,7 +63,7 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
         )?,
         None => writeln!(w, "ink      no limit known; no colour is held to one")?,
     }
-    for n in &r.notes {
+    for n in &r.conditions.notes {
         writeln!(w, "note     {n}")?;
     }
     writeln!(w)?;
@@ -94,7 +94,7 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
             plain(fixed(e.press_cmyk[2], 0)),
             plain(fixed(e.press_cmyk[3], 0)),
             plain(fixed(e.ink_total, 0)),
-            plain(lab3(e.proof_lab)),
+            plain(lab3(e.printed_lab)),
             (
                 fixed(e.delta_e00, 2),
                 if e.within_tolerance { Tone::Plain } else { Tone::Bad },
@@ -122,7 +122,7 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
         s.count,
         if s.count == 1 { "" } else { "s" },
         s.beyond_tolerance,
-        fixed(r.tolerance, 1),
+        fixed(r.conditions.tolerance, 1),
         s.out_of_gamut,
         if s.over_ink_limit > 0 {
             format!(", {} over the ink limit", s.over_ink_limit)
@@ -179,15 +179,15 @@ pub fn render_delta(w: &mut dyn Write, r: &DeltaReport) -> io::Result<()> {
 
 fn table_words(t: &TableReport) -> String {
     match t.status {
-        "own" => format!("own table ({})", t.tag.as_deref().unwrap_or("?")),
-        "same-as" => format!(
+        TableStatus::Own => format!("own table ({})", t.tag.as_deref().unwrap_or("?")),
+        TableStatus::SameAs => format!(
             "{} holds the same data as {}",
             t.tag.as_deref().unwrap_or("?"),
             t.served_by.as_deref().unwrap_or("?")
         ),
-        "falls-back" => format!("no table; falls back to {}", t.served_by.as_deref().unwrap_or("?")),
-        "matrix" => "matrix/TRC model (colorimetric)".to_string(),
-        _ => "none".to_string(),
+        TableStatus::FallsBack => format!("no table; falls back to {}", t.served_by.as_deref().unwrap_or("?")),
+        TableStatus::Matrix => "matrix/TRC model (colorimetric)".to_string(),
+        TableStatus::Missing => "none".to_string(),
     }
 }
 

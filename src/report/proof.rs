@@ -13,14 +13,14 @@ fn pct(share: f64) -> String {
 
 /// The table: one row per image; shares in percent of pixels.
 pub fn render(w: &mut dyn Write, r: &ProofReport, color: bool) -> io::Result<()> {
-    writeln!(w, "screen   {}", r.screen)?;
-    writeln!(w, "press    {}", r.press)?;
+    writeln!(w, "screen   {}", r.conditions.screen)?;
+    writeln!(w, "press    {}", r.conditions.press)?;
     writeln!(
         w,
         "mapping  {}, BPC {}, shown {}",
-        r.intent,
-        if r.bpc { "on" } else { "off" },
-        if r.paper_white {
+        r.conditions.intent,
+        if r.conditions.bpc { "on" } else { "off" },
+        if r.conditions.paper_white {
             "on paper white (absolute colorimetric)"
         } else {
             "media-relative (relative colorimetric)"
@@ -70,9 +70,9 @@ pub fn render(w: &mut dyn Write, r: &ProofReport, color: bool) -> io::Result<()>
     writeln!(
         w,
         "ΔE00 is CIEDE2000 between each pixel and its print; tolerance (p95) {:.2}",
-        r.tolerance
+        r.conditions.tolerance
     )?;
-    writeln!(w, "gamut test: {}", r.gamut_test)?;
+    writeln!(w, "gamut test: {}", r.conditions.gamut_test_method)?;
     for i in &r.images {
         write!(w, "{} → {}", i.input, i.output)?;
         if let Some(m) = &i.delta_map {
@@ -80,7 +80,7 @@ pub fn render(w: &mut dyn Write, r: &ProofReport, color: bool) -> io::Result<()>
         }
         writeln!(w)?;
     }
-    for n in &r.notes {
+    for n in &r.conditions.notes {
         writeln!(w, "note: {n}")?;
     }
     Ok(())

@@ -10,7 +10,7 @@ use crate::swatch::repair::RepairReport;
 /// The original → repaired table and what still fails.
 pub fn render(w: &mut dyn Write, r: &RepairReport, out_name: &str) -> std::io::Result<()> {
     writeln!(w, "palette  {} → {}", r.palette, out_name)?;
-    writeln!(w, "screen   {}   press {}", r.screen, r.press)?;
+    writeln!(w, "screen   {}   press {}", r.conditions.screen, r.conditions.press)?;
     writeln!(w, "method   {}", r.method)?;
     writeln!(w)?;
     if r.unchanged {

@@ -12,9 +12,10 @@ use super::Palette;
 use crate::color::css::ColorInput;
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
+use crate::conditions::{Conditions, GamutTest};
 use crate::gamut::InkLimit;
 use crate::icc::transform::{PressMapping, PressTransforms};
-use crate::icc::{Direction, IccError, IccProfile, RenderingIntent};
+use crate::icc::{Direction, IccError, IccProfile};
 
 /// Default tolerance: ΔE00 3.0, a rule of thumb for "visibly different but
 /// acceptable" in design review (common practice), not a standard.
@@ -78,7 +79,7 @@ pub struct CheckedEntry {
     pub over_ink_limit: bool,
     /// CIELAB D50 of that CMYK as printed (media-relative, or absolute with
     /// `paper_white`).
-    pub proof_lab: [f64; 3],
+    pub printed_lab: [f64; 3],
     pub delta_e00: f64,
     pub in_gamut: bool,
     /// CIEDE2000 of the colorimetric round trip (behind `in_gamut` with the
@@ -138,17 +139,11 @@ impl From<InkLimit> for CheckInkLimit {
 #[derive(Clone, Debug, Serialize)]
 pub struct CheckReport {
     pub palette: String,
-    pub screen: String,
-    pub press: String,
-    pub intent: RenderingIntent,
-    pub bpc: bool,
-    pub paper_white: bool,
-    pub tolerance: f64,
-    pub gamut_test: String,
+    /// Profiles, mapping, tolerance, gamut test and notes.
+    #[serde(flatten)]
+    pub conditions: Conditions,
     /// The total-ink limit every entry's CMYK is held to; null when unknown.
     pub ink_limit: Option<CheckInkLimit>,
-    /// Caveats about the profiles, e.g. an intent without a table of its own.
-    pub notes: Vec<String>,
     pub entries: Vec<CheckedEntry>,
     pub summary: CheckSummary,
 }
@@ -280,7 +275,7 @@ pub fn check_against(
             press_cmyk: round_all(cmyk[i], 1),
             ink_total: round(cmyk[i].iter().sum(), 1),
             over_ink_limit: over[i],
-            proof_lab: round_all(printed[i].to_array(), 2),
+            printed_lab: round_all(printed[i].to_array(), 2),
             delta_e00: round(de, 2),
             in_gamut,
             round_trip_delta_e00: round(rt, 2),
@@ -291,26 +286,20 @@ pub fn check_against(
     let summary = summarise(&entries);
     Ok(CheckReport {
         palette: palette.source.clone(),
-        screen: screen.name.clone(),
-        press: press.name.clone(),
-        intent: opts.mapping.intent,
-        bpc: opts.mapping.bpc,
-        paper_white: opts.mapping.paper_white,
-        tolerance: opts.tolerance,
+        conditions: Conditions::new(
+            screen,
+            press,
+            opts.mapping,
+            opts.tolerance,
+            if press_gamut.is_some() {
+                GamutTest::Boundary
+            } else {
+                GamutTest::RoundTrip
+            },
+            press_gamut.and_then(|g| g.ink_limit).map(|l| l.percent),
+            notes(screen, press, opts.mapping),
+        ),
         ink_limit: opts.ink_limit.map(CheckInkLimit::from),
-        gamut_test: match press_gamut {
-            Some(g) => format!(
-                "press gamut boundary in CIELAB{}: inside, or within ΔE00 {:.1} of it",
-                g.ink_limit
-                    .map(|l| format!(" (total ink {:.1} %)", l.percent))
-                    .unwrap_or_default(),
-                NOTICEABLE_DE00
-            ),
-            None => format!(
-                "round trip CIELAB → press → CIELAB (relative colorimetric, no BPC) within ΔE00 {NOTICEABLE_DE00:.1}"
-            ),
-        },
-        notes: notes(screen, press, opts.mapping),
         entries,
         summary,
     })

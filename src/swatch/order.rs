@@ -45,12 +45,52 @@ impl std::fmt::Display for Scheme {
     }
 }
 
+/// Which run of a scheme a step or arm belongs to.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum ArmName {
+    /// The whole of a sequential scheme.
+    Scale,
+    /// The arm of a diverging scheme that runs towards the first entry.
+    Low,
+    /// The arm of a diverging scheme that runs towards the last entry.
+    High,
+}
+
+impl std::fmt::Display for ArmName {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(match self {
+            ArmName::Scale => "scale",
+            ArmName::Low => "low",
+            ArmName::High => "high",
+        })
+    }
+}
+
+/// How lightness runs along an arm, on screen.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Trend {
+    /// L* falls from the arm's start to its end.
+    Darker,
+    /// L* rises.
+    Lighter,
+}
+
+impl std::fmt::Display for Trend {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(match self {
+            Trend::Darker => "darker",
+            Trend::Lighter => "lighter",
+        })
+    }
+}
+
 /// One step between neighbours, entries numbered from 1.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Step {
-    /// `"scale"` for a sequential scheme, `"low"` / `"high"` for the arm of a
-    /// diverging scheme that runs towards the first / last entry.
-    pub arm: &'static str,
+    /// The arm the step lies on.
+    pub arm: ArmName,
     pub from: usize,
     pub to: usize,
     pub screen: f64,
@@ -66,10 +106,12 @@ pub struct Step {
 /// One arm: its entries in order away from the start, and its direction.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Arm {
-    pub arm: &'static str,
+    /// Which arm.
+    pub arm: ArmName,
+    /// Its entries, numbered from 1, in order away from the start.
     pub entries: Vec<usize>,
-    /// `"darker"` or `"lighter"` along the arm, from the screen colours.
-    pub direction: &'static str,
+    /// How lightness runs along the arm, from the screen colours.
+    pub direction: Trend,
 }
 
 /// Matching steps of the two arms of a diverging scheme.
@@ -116,10 +158,10 @@ impl Order {
 
 /// The arms of `scheme` over `n` entries (0-based indices, in order away from
 /// each arm's start); empty for qualitative schemes.
-pub fn arms(scheme: Scheme, n: usize) -> Vec<(&'static str, Vec<usize>)> {
+pub fn arms(scheme: Scheme, n: usize) -> Vec<(ArmName, Vec<usize>)> {
     match scheme {
         Scheme::Qualitative => Vec::new(),
-        Scheme::Sequential => vec![("scale", (0..n).collect())],
+        Scheme::Sequential => vec![(ArmName::Scale, (0..n).collect())],
         Scheme::Diverging => {
             let (low, high): (Vec<usize>, Vec<usize>) = if n % 2 == 1 {
                 let m = n / 2;
@@ -127,7 +169,7 @@ pub fn arms(scheme: Scheme, n: usize) -> Vec<(&'static str, Vec<usize>)> {
             } else {
                 ((0..n / 2).rev().collect(), (n / 2..n).collect())
             };
-            vec![("low", low), ("high", high)]
+            vec![(ArmName::Low, low), (ArmName::High, high)]
         }
     }
 }
@@ -159,9 +201,9 @@ pub fn order(scheme: Scheme, screen: &[LabD50], print: &[LabD50], min_step: f64)
     for (name, idx) in &arm_list {
         let d = direction(idx, screen);
         arms_out.push(Arm {
-            arm: name,
+            arm: *name,
             entries: idx.iter().map(|i| i + 1).collect(),
-            direction: if d > 0.0 { "lighter" } else { "darker" },
+            direction: if d > 0.0 { Trend::Lighter } else { Trend::Darker },
         });
         let mut printed = Vec::new();
         for w in idx.windows(2) {
@@ -172,7 +214,7 @@ pub fn order(scheme: Scheme, screen: &[LabD50], print: &[LabD50], min_step: f64)
             let pdl = print[j].l - print[i].l;
             printed.push(p);
             steps.push(Step {
-                arm: name,
+                arm: *name,
                 from: i + 1,
                 to: j + 1,
                 screen: round(s, 2),
@@ -236,7 +278,7 @@ mod tests {
         assert!(o.monotonic_screen && !o.monotonic_print);
         let last = o.steps.last().unwrap();
         assert!(last.reverses_print && last.too_small_print, "{last:?}");
-        assert_eq!(o.arms[0].direction, "darker");
+        assert_eq!(o.arms[0].direction, Trend::Darker);
         assert!(!o.holds());
     }
 

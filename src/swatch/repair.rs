@@ -38,6 +38,7 @@ use crate::color::css::ColorInput;
 use crate::color::cvd::Simulator;
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
+use crate::conditions::Conditions;
 use crate::gamut::Gamut;
 use crate::icc::transform::{self, Local, PressMapping, PressTransforms, Side};
 use crate::icc::{IccError, IccProfile, RenderingIntent};
@@ -93,8 +94,10 @@ pub struct RepairedEntry {
 #[derive(Clone, Debug, Serialize)]
 pub struct RepairReport {
     pub palette: String,
-    pub screen: String,
-    pub press: String,
+    /// Profiles, mapping, tolerance, gamut test and notes of the checks run
+    /// before and after the repair.
+    #[serde(flatten)]
+    pub conditions: Conditions,
     pub method: &'static str,
     /// True when the palette already passed and comes back as it was.
     pub unchanged: bool,
@@ -459,15 +462,14 @@ pub fn repair(
             original_screen_lab: b.screen_lab,
             repaired_screen_lab: a.screen_lab,
             press_cmyk: a.press_cmyk,
-            printed_lab: a.proof_lab,
+            printed_lab: a.printed_lab,
             in_gamut: a.in_gamut,
         })
         .collect();
     Ok((
         RepairReport {
             palette: palette.source.clone(),
-            screen: screen.name.clone(),
-            press: press.name.clone(),
+            conditions: before_check.conditions.clone(),
             method: METHOD,
             unchanged,
             entries,

@@ -47,6 +47,16 @@ pub struct FlaggedPair {
     pub lost_half: bool,
 }
 
+/// Which pairs a separation result lists.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum PairsListed {
+    /// Every pair.
+    All,
+    /// Only the flagged pairs (palettes of more than 64 entries).
+    Flagged,
+}
+
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Separation {
     pub min_separation: f64,
@@ -55,8 +65,8 @@ pub struct Separation {
     /// The closest pair on screen and in print, numbered from 1.
     pub min_screen_pair: Option<[usize; 2]>,
     pub min_print_pair: Option<[usize; 2]>,
-    /// `"all"` (every pair) or `"flagged"` (palettes of more than 64 entries).
-    pub pairs_listed: &'static str,
+    /// Which pairs `pairs` lists.
+    pub pairs_listed: PairsListed,
     pub pairs: Vec<Pair>,
     /// Flagged pairs, smallest printed ΔE00 first.
     pub flagged: Vec<FlaggedPair>,
@@ -121,7 +131,11 @@ pub fn separation(names: &[String], screen: &[LabD50], print: &[LabD50], min_sep
         min_print: min_p.map_or(0.0, |(v, _)| round(v, 2)),
         min_screen_pair: min_s.map(|(_, p)| p),
         min_print_pair: min_p.map(|(_, p)| p),
-        pairs_listed: if list_all { "all" } else { "flagged" },
+        pairs_listed: if list_all {
+            PairsListed::All
+        } else {
+            PairsListed::Flagged
+        },
         pairs,
         flagged,
     }
@@ -174,7 +188,7 @@ mod tests {
         let n = MAX_ENTRIES_LISTING_ALL_PAIRS + 1;
         let lab: Vec<LabD50> = (0..n).map(|i| LabD50::new(i as f64 * 1.5, 0.0, 0.0)).collect();
         let s = separation(&names(n), &lab, &lab, 10.0);
-        assert_eq!(s.pairs_listed, "flagged");
+        assert_eq!(s.pairs_listed, PairsListed::Flagged);
         assert_eq!(s.pairs.len(), s.flagged.len());
         assert!(s.pairs.len() < n * (n - 1) / 2);
     }

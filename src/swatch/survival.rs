@@ -268,7 +268,7 @@ pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &Sur
 pub fn analyse_check(r: &CheckReport, opts: &SurvivalOptions) -> Survival {
     let names: Vec<String> = r.entries.iter().map(|e| e.name.clone()).collect();
     let screen: Vec<LabD50> = r.entries.iter().map(|e| LabD50::from_array(e.screen_lab)).collect();
-    let print: Vec<LabD50> = r.entries.iter().map(|e| LabD50::from_array(e.proof_lab)).collect();
+    let print: Vec<LabD50> = r.entries.iter().map(|e| LabD50::from_array(e.printed_lab)).collect();
     analyse(&names, &screen, &print, opts)
 }
 
@@ -305,7 +305,7 @@ fn colour_finding(
 
 /// The verdict over a check and its palette analysis.
 pub fn verdict(r: &CheckReport, s: &Survival) -> Verdict {
-    let tolerance = format!("beyond ΔE00 {}", crate::precision::fixed(r.tolerance, 1));
+    let tolerance = format!("beyond ΔE00 {}", crate::precision::fixed(r.conditions.tolerance, 1));
     let mut reasons: Vec<Finding> = [
         colour_finding(
             CheckKind::Tolerance,
