@@ -38,6 +38,8 @@
 //! # }
 //! ```
 
+#![warn(missing_docs)]
+
 #[cfg(feature = "cli")]
 pub mod cli;
 pub mod color;

@@ -50,6 +50,7 @@ impl DeltaTable {
         Self { channels: ch, n, nodes }
     }
 
+    /// Nodes along each input axis of the grid.
     pub fn nodes_per_axis(&self) -> usize {
         self.n
     }
