@@ -20,25 +20,57 @@ use std::path::{Path, PathBuf};
 /// Why an output cannot be written. Each names the path.
 #[derive(Debug, thiserror::Error)]
 pub enum OutputError {
+    /// The output is one of the inputs.
     #[error("'{output}' would overwrite the input '{input}': inkfit never writes over an input; name another output")]
-    SameAsInput { output: String, input: String },
+    SameAsInput {
+        /// The output path as given.
+        output: String,
+        /// The input path it would replace.
+        input: String,
+    },
+    /// The output exists and is not a regular file.
     #[error("'{output}' is {kind}, not a regular file: inkfit only replaces regular files")]
-    NotRegular { output: String, kind: &'static str },
+    NotRegular {
+        /// The output path as given.
+        output: String,
+        /// What it is instead ("a folder", "a character device", …).
+        kind: &'static str,
+    },
+    /// The output is a symbolic link whose target does not exist.
     #[error("'{output}' is a link to nothing: name the file itself")]
-    DanglingLink { output: String },
+    DanglingLink {
+        /// The output path as given.
+        output: String,
+    },
+    /// A part of the output's folder path exists and is not a folder.
     #[error("'{output}': '{folder}' is not a folder, so nothing can be written inside it")]
-    NotAFolder { output: String, folder: String },
+    NotAFolder {
+        /// The output path as given.
+        output: String,
+        /// The part that is not a folder.
+        folder: String,
+    },
+    /// The same output is named twice in one run.
     #[error("'{output}' is named twice as an output of this run")]
-    Twice { output: String },
+    Twice {
+        /// The output path as given.
+        output: String,
+    },
+    /// The output could not be examined, written or put in place.
     #[error("'{path}': cannot write: {source}")]
     Write {
+        /// The path being written.
         path: String,
+        /// The I/O error.
         #[source]
         source: io::Error,
     },
+    /// A folder for the output could not be made.
     #[error("'{path}': cannot make the folder: {source}")]
     Folder {
+        /// The folder's path.
         path: String,
+        /// The I/O error.
         #[source]
         source: io::Error,
     },
@@ -132,6 +164,7 @@ pub struct Outputs {
 }
 
 impl Outputs {
+    /// An empty guard: no inputs recorded, nothing staged.
     pub fn new() -> Self {
         Self::default()
     }

@@ -1,15 +1,27 @@
 //! inkfit: screen colours judged against an offset print condition.
 //!
-//! Data flows one way:
+//! Data flows one way; a module only uses modules above it in this list:
 //!
 //! ```text
-//! files ──> icc (profiles) / color::css (colour text) / swatch (palettes)
-//!       ──> analyses (swatch::check, color::delta, icc::inspect)
-//!       ──> plain result structs (serde) ──> report (tables, JSON) ──> io (atomic writes)
+//! color, precision        pure kernels: colour spaces, ΔE formulas, CSS colour, CVD; rounding
+//! icc                     profiles (bounded reads, strict tag checks, built-ins), the one lcms2
+//!                         transform factory (icc::transform), inspection
+//! conditions              the header every check, proof and repair report opens with
+//! gamut                   gamut solids, boundary meshes, nearest-point search, coverage, export
+//! press                   the built-in press conditions: spec, printing model, gamut mapping,
+//!                         inversion, ICC writer (the committed bytes live in icc::builtin)
+//! swatch                  palette files and palette analyses: check, separation, order,
+//!                         survival, repair, rewriting a palette in its own shape
+//! proof                   soft proofs of images: raster files, exact model, ΔE00 table, statistics
+//! plot                    SVG figures: loci, outlines, sections, layout per kind
+//! report                  text tables and JSON for every result struct
+//! io                      the output guard: atomic, all-or-nothing writes, never over an input
+//! cli                     (feature `cli`) the command line over all of the above
 //! ```
 //!
-//! Start reading at [`swatch::check`] for the main job, [`icc`] for profiles
-//! and [`press`] for the built-in press condition.
+//! Start reading at [`swatch::check`] for the main job, [`icc`] for
+//! profiles, [`press`] for the built-in press condition, [`gamut`] for gamut
+//! solids, [`proof`] for images and [`plot`] for figures.
 //!
 //! As a library, without the command line (`default-features = false`):
 //!
@@ -37,6 +49,8 @@
 //! # Ok(())
 //! # }
 //! ```
+
+#![warn(missing_docs)]
 
 #[cfg(feature = "cli")]
 pub mod cli;

@@ -21,6 +21,7 @@ use clap::{Args, Parser, Subcommand, ValueEnum};
 use crate::icc::IccProfile;
 use crate::io::Outputs;
 
+/// The command line: one subcommand.
 #[derive(Parser, Debug)]
 #[command(
     name = "inkfit",
@@ -30,10 +31,12 @@ use crate::io::Outputs;
                   A profile argument is a built-in name (see `inkfit profiles`) or a path to an ICC file."
 )]
 pub struct Cli {
+    /// The subcommand to run.
     #[command(subcommand)]
     pub command: Command,
 }
 
+/// The subcommands.
 #[derive(Subcommand, Debug)]
 pub enum Command {
     /// Check each colour of a palette against the press: CMYK, ink, printed CIELAB, CIEDE2000, gamut.
@@ -57,11 +60,16 @@ pub enum Command {
     BuildPress(BuildPressArgs),
 }
 
+/// `--intent`: the rendering intent from screen to press.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
 pub enum IntentArg {
+    /// The press profile's perceptual rendering.
     Perceptual,
+    /// Relative colorimetric: colours kept where the press can print them, white mapped to the paper's white.
     Relative,
+    /// The press profile's saturation rendering.
     Saturation,
+    /// Absolute colorimetric: colours kept as measured, the paper's white included.
     Absolute,
 }
 
@@ -77,6 +85,7 @@ impl From<IntentArg> for crate::icc::RenderingIntent {
     }
 }
 
+/// `--screen` and `--press`: the two profiles of a check.
 #[derive(Args, Debug)]
 pub struct ProfileArgs {
     /// Screen profile: built-in name or ICC file.
@@ -110,12 +119,15 @@ impl MappingArgs {
     }
 }
 
+/// The options of `check`.
 #[derive(Args, Debug)]
 pub struct CheckArgs {
     /// Palette file: .csv (with a header naming a colour column), .json (array of {"name","color"}) or plain text.
     pub palette: PathBuf,
+    /// The screen and press profiles.
     #[command(flatten)]
     pub profiles: ProfileArgs,
+    /// How screen colours are sent to the press.
     #[command(flatten)]
     pub mapping: MappingArgs,
     /// Largest acceptable CIEDE2000 between screen and print. The default 3.0 is a rule of thumb, not a standard.
@@ -136,22 +148,28 @@ pub struct CheckArgs {
     /// Also write the xy chromaticity diagram of the check (outlines, an arrow per colour) as SVG.
     #[arg(long, value_name = "FILE.svg")]
     pub svg: Option<PathBuf>,
+    /// The palette checks beyond the per-colour results.
     #[command(flatten)]
     pub survival: repair::SurvivalArgs,
 }
 
+/// `--gamut-test`: how "in gamut" is decided.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
 pub enum GamutTestArg {
+    /// Inside the press gamut's boundary, or within 1 ΔE00 of it.
     Boundary,
+    /// The round trip CIELAB → press → CIELAB (relative colorimetric, no BPC) returns within 1 ΔE00.
     RoundTrip,
 }
 
+/// The options of `delta`.
 #[derive(Args, Debug)]
 pub struct DeltaArgs {
     /// First colour (the reference for ΔE*94 and CMC), in CSS colour syntax.
     pub a: String,
     /// Second colour.
     pub b: String,
+    /// The profiles that turn RGB and CMYK colours into CIELAB.
     #[command(flatten)]
     pub profiles: ProfileArgs,
     /// Write JSON instead of a table.
@@ -159,6 +177,7 @@ pub struct DeltaArgs {
     pub json: bool,
 }
 
+/// The options of `inspect`.
 #[derive(Args, Debug)]
 pub struct InspectArgs {
     /// Built-in name or ICC file.
@@ -168,6 +187,7 @@ pub struct InspectArgs {
     pub json: bool,
 }
 
+/// The options of `profiles`.
 #[derive(Args, Debug)]
 pub struct ProfilesArgs {
     /// Write JSON instead of a table.
@@ -175,6 +195,7 @@ pub struct ProfilesArgs {
     pub json: bool,
 }
 
+/// The options of `gamut`.
 #[derive(Args, Debug)]
 pub struct GamutArgs {
     /// Profiles (built-in names or ICC files): RGB screens or CMYK presses.
@@ -194,6 +215,7 @@ pub struct GamutArgs {
     pub svg: Option<PathBuf>,
 }
 
+/// The options of the hidden `build-press`.
 #[derive(Args, Debug)]
 pub struct BuildPressArgs {
     /// Built-in press condition to rebuild.
@@ -207,11 +229,13 @@ pub struct BuildPressArgs {
 /// How a successful run ended.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Outcome {
+    /// The job ran; nothing was beyond tolerance, or `--strict` was not given.
     Done,
     /// `--strict` and something was beyond tolerance.
     BeyondTolerance,
 }
 
+/// Any error a subcommand returns; `main` prints it with its causes.
 pub type Error = Box<dyn std::error::Error + Send + Sync>;
 
 /// Runs the subcommand `cli` names, writing its report to `out`.

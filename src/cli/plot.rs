@@ -16,6 +16,7 @@ use crate::plot::{self, Figure, PlotError, PlotKind, Swatch};
 use crate::swatch::check::{check_against, CheckOptions, CheckReport, DEFAULT_TOLERANCE};
 use crate::swatch::Palette;
 
+/// The options of `plot`.
 #[derive(Args, Debug)]
 pub struct PlotArgs {
     /// Figure: xy (CIE 1931 chromaticity), uv (CIE 1976 u′v′), ab (slices at L*) or leaf (L* against C* at one hue).
@@ -35,6 +36,7 @@ pub struct PlotArgs {
     /// Press profile: with it, arrows show where the press puts each colour and out-of-gamut colours are marked.
     #[arg(long, value_name = "PROFILE")]
     pub press: Option<String>,
+    /// How palette colours are sent to the press.
     #[command(flatten)]
     pub mapping: MappingArgs,
     /// L* of the a*b* slices (ab), comma-separated, each 0–100.
@@ -103,6 +105,7 @@ pub fn stage_figure(outputs: &mut Outputs, path: &Path, fig: &Figure) -> Result<
     Ok(())
 }
 
+/// Runs `plot`: checks every option and input, then draws and writes the figure.
 pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
     // The plan: every option and input checked before any work.
     let kind = PlotKind::parse(&a.kind)?;

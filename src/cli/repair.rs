@@ -17,20 +17,29 @@ use crate::swatch::rewrite::{rewrite, text_heading};
 use crate::swatch::survival::{verdict, CheckWithSurvival, Survival, SurvivalOptions};
 use crate::swatch::{Format, Palette};
 
+/// `--scheme`: the kind of palette.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
 pub enum SchemeArg {
+    /// Unordered classes: no lightness order is checked.
     Qualitative,
+    /// A sequential scale in file order: lightness order and steps are checked too.
     Sequential,
+    /// Two arms from the middle entry: order and steps on each arm, and their symmetry.
     Diverging,
 }
 
+/// `--cvd`: a colour-vision deficiency to simulate.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
 pub enum CvdArg {
+    /// Missing or anomalous L cones.
     Protan,
+    /// Missing or anomalous M cones.
     Deutan,
+    /// Missing or anomalous S cones.
     Tritan,
 }
 
+/// The palette checks shared by `check` and `repair`.
 #[derive(Args, Debug, Clone)]
 pub struct SurvivalArgs {
     /// Kind of palette: qualitative classes, a sequential scale (file order), or diverging (two arms from the middle entry).
@@ -51,6 +60,7 @@ pub struct SurvivalArgs {
 }
 
 impl SurvivalArgs {
+    /// The survival options these arguments ask for; an error when a value is out of range.
     pub fn options(&self) -> Result<SurvivalOptions, Error> {
         let o = SurvivalOptions {
             scheme: match self.scheme {
@@ -108,6 +118,7 @@ pub fn finish_check(
     })
 }
 
+/// The options of `repair`.
 #[derive(Args, Debug)]
 pub struct RepairArgs {
     /// Palette file (.csv, .json or plain text); the repaired palette is written in the same format.
@@ -115,10 +126,13 @@ pub struct RepairArgs {
     /// Where to write the repaired palette.
     #[arg(long, value_name = "FILE")]
     pub out: PathBuf,
+    /// The screen and press profiles.
     #[command(flatten)]
     pub profiles: ProfileArgs,
+    /// How screen colours are sent to the press.
     #[command(flatten)]
     pub mapping: MappingArgs,
+    /// The palette checks the repair must make pass.
     #[command(flatten)]
     pub survival: SurvivalArgs,
     /// Write the report as JSON instead of a table.
@@ -132,6 +146,7 @@ pub struct RepairArgs {
 /// Gradient steps per penalty weight.
 const ITERATIONS: usize = 40;
 
+/// Runs `repair`: checks the inputs, repairs the palette, writes it back in its own format and reports.
 pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     // The plan: options, palette, profiles and gamut before any work.
     let sopts = a.survival.options()?;

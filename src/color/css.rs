@@ -30,7 +30,9 @@ pub enum ColorInput {
 #[derive(Clone, Debug, PartialEq, thiserror::Error)]
 #[error("bad colour \"{input}\": {expected}")]
 pub struct ColorParseError {
+    /// The colour text as given.
     pub input: String,
+    /// What was expected instead, in words.
     pub expected: String,
 }
 

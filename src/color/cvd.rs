@@ -40,6 +40,7 @@ pub enum Deficiency {
 }
 
 impl Deficiency {
+    /// All three deficiencies, in the order protan, deutan, tritan.
     pub const ALL: [Deficiency; 3] = [Deficiency::Protan, Deficiency::Deutan, Deficiency::Tritan];
 
     /// Lower-case name as used on the command line and in JSON.
@@ -277,7 +278,9 @@ pub fn matrix(d: Deficiency, severity: f64) -> Option<Mat3> {
 /// A ready simulator for one deficiency and severity.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Simulator {
+    /// The deficiency simulated.
     pub deficiency: Deficiency,
+    /// Its severity, 0 (normal vision) to 1 (dichromacy).
     pub severity: f64,
     m: Mat3,
 }

@@ -34,39 +34,52 @@ pub const D65: Xyz = Xyz {
 /// values are relative to is carried by the caller's name or context.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct Xyz {
+    /// X.
     pub x: f64,
+    /// Y, the luminance: 1 for the white.
     pub y: f64,
+    /// Z.
     pub z: f64,
 }
 
 /// CIELAB relative to D50, the ICC connection space.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct LabD50 {
+    /// L*, lightness: 0 black to 100 the D50 white.
     pub l: f64,
+    /// a*: green (negative) to red (positive).
     pub a: f64,
+    /// b*: blue (negative) to yellow (positive).
     pub b: f64,
 }
 
 /// CIE LCh(ab): lightness, chroma and hue angle in degrees [0, 360).
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct Lch {
+    /// L*, lightness, 0..100.
     pub l: f64,
+    /// C*ab, chroma: the distance from the neutral axis.
     pub c: f64,
+    /// h_ab, hue angle in degrees, [0, 360).
     pub h: f64,
 }
 
 /// CIE 1931 xy chromaticity.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct Xy {
+    /// x chromaticity.
     pub x: f64,
+    /// y chromaticity.
     pub y: f64,
 }
 
 impl Xyz {
+    /// XYZ from its three components.
     pub const fn new(x: f64, y: f64, z: f64) -> Self {
         Self { x, y, z }
     }
 
+    /// [X, Y, Z].
     pub fn to_array(self) -> [f64; 3] {
         [self.x, self.y, self.z]
     }
@@ -91,14 +104,17 @@ impl Xyz {
 }
 
 impl LabD50 {
+    /// CIELAB D50 from L*, a*, b*.
     pub const fn new(l: f64, a: f64, b: f64) -> Self {
         Self { l, a, b }
     }
 
+    /// [L*, a*, b*].
     pub fn to_array(self) -> [f64; 3] {
         [self.l, self.a, self.b]
     }
 
+    /// CIELAB D50 from [L*, a*, b*].
     pub fn from_array(v: [f64; 3]) -> Self {
         Self::new(v[0], v[1], v[2])
     }
@@ -114,6 +130,7 @@ impl LabD50 {
         lab_to_xyz([self.l, self.a, self.b], D50)
     }
 
+    /// LCh(ab) of this colour: chroma and hue angle from a*, b*.
     pub fn to_lch(self) -> Lch {
         let c = self.a.hypot(self.b);
         let mut h = self.b.atan2(self.a).to_degrees();
@@ -123,6 +140,7 @@ impl LabD50 {
         Lch { l: self.l, c, h }
     }
 
+    /// CIELAB from LCh(ab).
     pub fn from_lch(lch: Lch) -> Self {
         let (s, c) = lch.h.to_radians().sin_cos();
         Self {

@@ -8,7 +8,9 @@ use super::*;
 /// How much of gamut `a` lies inside gamut `b`.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Coverage {
+    /// The name of the profile whose gamut is measured.
     pub a: String,
+    /// The name of the profile whose gamut it is measured against.
     pub b: String,
     /// |A ∩ B| / |A|, 0..1.
     pub a_inside_b: f64,

@@ -22,12 +22,16 @@ use crate::icc::RenderingIntent;
 /// Which file format a path asks for, by its extension.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum MeshFormat {
+    /// ASCII PLY (`.ply`).
     Ply,
+    /// glTF 2.0, JSON with the data embedded (`.gltf`).
     Gltf,
+    /// glTF 2.0, binary (`.glb`).
     Glb,
 }
 
 impl MeshFormat {
+    /// The format that the path's extension (any case) asks for; `None` for another extension.
     pub fn from_path(path: &Path) -> Option<MeshFormat> {
         let ext = path.extension()?.to_str()?.to_ascii_lowercase();
         match ext.as_str() {

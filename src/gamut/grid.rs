@@ -28,12 +28,28 @@ const _: () = assert!(MAX_VOXELS <= u32::MAX as usize);
 /// Why no grid covers a box.
 #[derive(Clone, Debug, PartialEq, thiserror::Error)]
 pub enum GridError {
+    /// The box or voxel size cannot hold a grid.
     #[error(
         "cannot lay a voxel grid over the box {lo:?}…{hi:?} with voxels of {h} (not finite, inverted or not positive)"
     )]
-    Degenerate { lo: [f64; 3], hi: [f64; 3], h: f64 },
+    Degenerate {
+        /// The box's low corner, CIELAB [L*, a*, b*].
+        lo: [f64; 3],
+        /// The box's high corner, CIELAB [L*, a*, b*].
+        hi: [f64; 3],
+        /// The voxel edge asked for, CIELAB units.
+        h: f64,
+    },
+    /// The grid would have more voxels than the limit.
     #[error("a voxel grid of {dims} voxels of {h} CIELAB units would exceed the limit of {limit} voxels")]
-    TooLarge { dims: String, h: f64, limit: usize },
+    TooLarge {
+        /// The voxel counts, "L × a × b".
+        dims: String,
+        /// The voxel edge, CIELAB units.
+        h: f64,
+        /// The most voxels allowed.
+        limit: usize,
+    },
 }
 
 /// Offsets (in voxels) that keep voxel centres off round CIELAB values, so
@@ -76,19 +92,23 @@ impl Grid {
         Ok(Grid { origin, h, dims })
     }
 
+    /// The number of voxels.
     pub fn len(&self) -> usize {
         self.dims[0] * self.dims[1] * self.dims[2]
     }
 
+    /// True for a grid of no voxels.
     pub fn is_empty(&self) -> bool {
         self.len() == 0
     }
 
+    /// Index of voxel (il, ia, ib) in a cell vector: L* varies fastest, then b*, then a*.
     #[inline]
     pub fn index(&self, il: usize, ia: usize, ib: usize) -> usize {
         (ia * self.dims[2] + ib) * self.dims[0] + il
     }
 
+    /// The CIELAB [L*, a*, b*] centre of voxel (il, ia, ib).
     #[inline]
     pub fn center(&self, il: usize, ia: usize, ib: usize) -> [f64; 3] {
         [
@@ -338,11 +358,14 @@ pub fn fill_cavities(grid: &Grid, cells: &mut [u8]) {
 /// A gamut solid: which voxel centres of `grid` lie inside (1) or not (0).
 #[derive(Clone, Debug)]
 pub struct Solid {
+    /// The grid the cells lie on.
     pub grid: Grid,
+    /// 1 for a voxel centre inside, 0 outside, indexed by [`Grid::index`].
     pub cells: Vec<u8>,
 }
 
 impl Solid {
+    /// The number of voxel centres inside.
     pub fn count(&self) -> usize {
         self.cells.iter().filter(|&&c| c != 0).count()
     }

@@ -13,7 +13,9 @@ use crate::color::LabD50;
 /// counter-clockwise seen from outside.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct Mesh {
+    /// Vertices, CIELAB D50 [L*, a*, b*].
     pub vertices: Vec<[f64; 3]>,
+    /// Triangles as three indices into `vertices`.
     pub triangles: Vec<[u32; 3]>,
 }
 
@@ -50,6 +52,7 @@ impl Mesh {
     }
 }
 
+/// Smallest and largest coordinate of `points` along each axis; `None` when empty.
 pub fn bounds(points: &[[f64; 3]]) -> Option<([f64; 3], [f64; 3])> {
     let first = *points.first()?;
     let mut lo = first;
@@ -267,6 +270,7 @@ const BUCKET_MARGIN: f64 = 2.0 * 2.2 * 5.2;
 const REFINE_STEPS: usize = 8;
 
 impl Locator {
+    /// Buckets the mesh's vertices for the search.
     pub fn new(mesh: Mesh) -> Locator {
         let mut map: HashMap<[i64; 3], Vec<u32>> = HashMap::new();
         for (i, v) in mesh.vertices.iter().enumerate() {
@@ -300,6 +304,7 @@ impl Locator {
         Locator { mesh, buckets, around }
     }
 
+    /// The mesh searched.
     pub fn mesh(&self) -> &Mesh {
         &self.mesh
     }

@@ -53,38 +53,77 @@ use mesh::{Locator, Mesh};
 /// Why a profile's gamut cannot be computed. Each names the profile.
 #[derive(Debug, thiserror::Error)]
 pub enum GamutError {
+    /// The profile is not an RGB or CMYK device profile.
     #[error("profile '{name}' is {found}; a gamut needs an RGB or CMYK device profile (not a link, abstract or named-colour profile)")]
-    Unsupported { name: String, found: String },
+    Unsupported {
+        /// The profile's name.
+        name: String,
+        /// What the profile is, in words.
+        found: String,
+    },
+    /// lcms2 cannot build the profile's device → CIELAB transform.
     #[error("profile '{name}': lcms2 cannot build its device → CIELAB transform, so its tables cannot be sampled")]
-    Transform { name: String },
+    Transform {
+        /// The profile's name.
+        name: String,
+    },
+    /// The device → CIELAB table gives unusable values.
     #[error("profile '{name}': its device → CIELAB table gives unusable values ({detail})")]
-    Sampling { name: String, detail: String },
+    Sampling {
+        /// The profile's name.
+        name: String,
+        /// What is wrong with them, in words.
+        detail: String,
+    },
+    /// The gamut computed is not plausible for a device.
     #[error("profile '{name}': its gamut is not plausible ({detail})")]
-    Implausible { name: String, detail: String },
+    Implausible {
+        /// The profile's name.
+        name: String,
+        /// What is implausible, in words.
+        detail: String,
+    },
+    /// No voxel grid can be laid over the profile's gamut.
     #[error("profile '{name}': {source}")]
     Grid {
+        /// The profile's name.
         name: String,
+        /// Why no grid fits.
         #[source]
         source: GridError,
     },
+    /// No voxel grid covers both gamuts of a coverage.
     #[error("profiles '{a}' and '{b}': no shared grid for their coverage: {source}")]
     CoverageGrid {
+        /// The first profile's name.
         a: String,
+        /// The second profile's name.
         b: String,
+        /// Why no grid fits.
         #[source]
         source: GridError,
     },
+    /// No total-ink limit was given and the profile has no CIELAB → CMYK table to measure it from.
     #[error("profile '{name}': no CIELAB → CMYK table to measure the total-ink limit from; give --ink-limit")]
-    NoInkLimit { name: String },
+    NoInkLimit {
+        /// The profile's name.
+        name: String,
+    },
+    /// The total-ink limit given is outside 1..400 %.
     #[error("the total-ink limit must be between 1 and 400 %, not {value}")]
-    InkLimit { value: f64 },
+    InkLimit {
+        /// The limit given, percent.
+        value: f64,
+    },
 }
 
 /// The kind of device a gamut belongs to.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "lowercase")]
 pub enum DeviceKind {
+    /// An RGB device (a screen).
     Rgb,
+    /// A CMYK device (a press).
     Cmyk,
 }
 
@@ -165,13 +204,19 @@ enum Shape {
 /// A device's gamut in CIELAB D50.
 #[derive(Clone, Debug)]
 pub struct Gamut {
+    /// The profile's name.
     pub name: String,
+    /// RGB or CMYK.
     pub kind: DeviceKind,
+    /// The total-ink limit the solid was computed with; `None` for RGB.
     pub ink_limit: Option<InkLimit>,
     /// Cubic CIELAB units (ΔE*ab³).
     pub volume: f64,
+    /// The smallest L* of the gamut's boundary (RGB) or sampled colours (CMYK).
     pub l_min: f64,
+    /// The largest L* of the gamut's boundary (RGB) or sampled colours (CMYK).
     pub l_max: f64,
+    /// The largest chroma in each hue sector, 0° upwards.
     pub hue_sectors: Vec<HueSector>,
     shape: Shape,
     solid: Solid,

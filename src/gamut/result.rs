@@ -7,9 +7,12 @@ use serde::Serialize;
 
 use super::{Coverage, DeviceKind, Gamut};
 
+/// The result of `gamut` (its JSON): every profile's gamut and the coverages between them.
 #[derive(Clone, Debug, Serialize)]
 pub struct GamutReport {
+    /// One entry per profile, in the order given.
     pub profiles: Vec<ProfileGamut>,
+    /// How much of one gamut lies inside another, per pair asked for.
     pub coverage: Vec<Coverage>,
     /// How the solids were computed, in words.
     pub method: Vec<String>,
@@ -17,30 +20,42 @@ pub struct GamutReport {
     pub meshes: Vec<MeshFile>,
 }
 
+/// One profile's gamut as reported.
 #[derive(Clone, Debug, Serialize)]
 pub struct ProfileGamut {
+    /// The profile's name.
     pub name: String,
+    /// RGB or CMYK.
     pub kind: DeviceKind,
     /// Cubic CIELAB units, rounded to a whole number.
     pub volume: f64,
+    /// The smallest L*, 2 decimals.
     pub l_min: f64,
+    /// The largest L*, 2 decimals.
     pub l_max: f64,
     /// Total-ink limit in percent for CMYK, null for RGB.
     pub ink_limit: Option<f64>,
     /// "measured" (from the profile's CIELAB → CMYK table) or "given".
     pub ink_limit_source: Option<&'static str>,
+    /// The largest chroma in each hue sector (C*ab and L* to 2 decimals).
     pub hue_sectors: Vec<super::HueSector>,
 }
 
+/// One mesh file written.
 #[derive(Clone, Debug, Serialize)]
 pub struct MeshFile {
+    /// The profile whose gamut it holds.
     pub profile: String,
+    /// The file's path as written.
     pub file: String,
+    /// Vertices in the mesh.
     pub vertices: usize,
+    /// Triangles in the mesh.
     pub triangles: usize,
 }
 
 impl GamutReport {
+    /// The report of these gamuts, coverages and mesh files, with the numbers rounded for output.
     pub fn new(gamuts: &[Gamut], coverage: Vec<Coverage>, meshes: Vec<MeshFile>) -> GamutReport {
         let profiles = gamuts
             .iter()

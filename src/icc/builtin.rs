@@ -9,19 +9,26 @@ use super::IccError;
 #[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
 #[serde(rename_all = "lowercase")]
 pub enum Role {
+    /// A screen (RGB display) profile.
     Screen,
+    /// A press (CMYK output) profile.
     Press,
 }
 
 /// A built-in profile as listed by `inkfit profiles`.
 #[derive(Clone, Copy, Debug, serde::Serialize)]
 pub struct BuiltinInfo {
+    /// The name that selects it on the command line.
     pub name: &'static str,
+    /// What it is for: screen or press.
     pub role: Role,
+    /// One line saying what it is.
     pub summary: &'static str,
+    /// What defines it: the standard and its parameters, or inkfit's own model.
     pub definition: &'static str,
 }
 
+/// Every built-in profile, screens first.
 pub const BUILTINS: &[BuiltinInfo] = &[
     BuiltinInfo {
         name: "srgb",
@@ -61,10 +68,12 @@ pub const BUILTINS: &[BuiltinInfo] = &[
     },
 ];
 
+/// The names of every built-in, in [`BUILTINS`] order.
 pub fn names() -> Vec<&'static str> {
     BUILTINS.iter().map(|b| b.name).collect()
 }
 
+/// The built-in named `name`, if there is one.
 pub fn info(name: &str) -> Option<&'static BuiltinInfo> {
     BUILTINS.iter().find(|b| b.name == name)
 }

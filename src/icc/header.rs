@@ -11,23 +11,51 @@ use std::fmt;
 /// Why a byte string is not a well-formed ICC profile.
 #[derive(Clone, Debug, PartialEq, Eq, thiserror::Error)]
 pub enum HeaderError {
+    /// Shorter than the 128-byte header plus the tag count.
     #[error("not an ICC profile: {len} bytes, shorter than the 128-byte header and tag count")]
-    TooShort { len: usize },
-    #[error("not an ICC profile: no 'acsp' signature at byte 36")]
-    NoSignature,
-    #[error("truncated: the header declares {declared} bytes but the file has {actual}")]
-    Truncated { declared: usize, actual: usize },
-    #[error("damaged tag table: tag '{sig}' at {offset}+{size} lies outside the {len}-byte profile")]
-    TagOutOfBounds {
-        sig: Signature,
-        offset: usize,
-        size: usize,
+    TooShort {
+        /// The length of the data, bytes.
         len: usize,
     },
+    /// No `acsp` signature at byte 36.
+    #[error("not an ICC profile: no 'acsp' signature at byte 36")]
+    NoSignature,
+    /// The header declares more bytes than the data holds.
+    #[error("truncated: the header declares {declared} bytes but the file has {actual}")]
+    Truncated {
+        /// The size the header declares, bytes.
+        declared: usize,
+        /// The size of the data, bytes.
+        actual: usize,
+    },
+    /// A tag's data lies outside the profile.
+    #[error("damaged tag table: tag '{sig}' at {offset}+{size} lies outside the {len}-byte profile")]
+    TagOutOfBounds {
+        /// The tag's signature.
+        sig: Signature,
+        /// Where the tag's data starts, bytes from the start of the profile.
+        offset: usize,
+        /// The tag's declared size, bytes.
+        size: usize,
+        /// The length of the profile, bytes.
+        len: usize,
+    },
+    /// The tag table is longer than the profile.
     #[error("damaged tag table: {count} tags do not fit in the profile")]
-    TagCount { count: usize },
+    TagCount {
+        /// The tag count the table declares.
+        count: usize,
+    },
+    /// A tag declares more than [`MAX_TAG_BYTES`].
     #[error("damaged tag table: tag '{sig}' declares {size} bytes, more than the {limit} a tag may have")]
-    TagTooLarge { sig: Signature, size: usize, limit: usize },
+    TagTooLarge {
+        /// The tag's signature.
+        sig: Signature,
+        /// The tag's declared size, bytes.
+        size: usize,
+        /// The largest size accepted, bytes.
+        limit: usize,
+    },
 }
 
 /// The largest tag accepted, bytes: 48 MiB. The largest lookup table
@@ -41,10 +69,12 @@ pub const MAX_TAG_BYTES: usize = 48 << 20;
 pub struct Signature(pub [u8; 4]);
 
 impl Signature {
+    /// The signature of four bytes, e.g. `Signature::new(b"prtr")`.
     pub const fn new(s: &[u8; 4]) -> Self {
         Self(*s)
     }
 
+    /// The signature read as a big-endian number, as it is stored.
     pub fn as_u32(self) -> u32 {
         u32::from_be_bytes(self.0)
     }
@@ -77,40 +107,62 @@ impl fmt::Debug for Signature {
 /// One entry of the tag table.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct TagEntry {
+    /// The tag's signature.
     pub sig: Signature,
+    /// Where the tag's data starts, bytes from the start of the profile.
     pub offset: usize,
+    /// The tag's size, bytes.
     pub size: usize,
 }
 
 /// The header fields inkfit uses, and the tag table.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Header {
+    /// The profile size the header declares, bytes.
     pub size: usize,
     /// Version as (major, minor, bugfix), e.g. (4, 3, 0).
     pub version: (u8, u8, u8),
+    /// The profile or device class (`mntr`, `prtr`, …).
     pub class: Signature,
+    /// The colour space of the device data (`RGB `, `CMYK`, …).
     pub color_space: Signature,
+    /// The profile connection space (`XYZ ` or `Lab `).
     pub pcs: Signature,
     /// Creation date as (year, month, day, hour, minute, second).
     pub created: [u16; 6],
+    /// The rendering intent field as stored (0 perceptual … 3 absolute colorimetric).
     pub rendering_intent: u32,
     /// PCS illuminant from the header, XYZ with Y = 1.
     pub illuminant: [f64; 3],
+    /// The signature of the profile's creator.
     pub creator: Signature,
+    /// The tag table in file order.
     pub tags: Vec<TagEntry>,
 }
 
+/// Device class: display.
 pub const CLASS_DISPLAY: Signature = Signature::new(b"mntr");
+/// Device class: input.
 pub const CLASS_INPUT: Signature = Signature::new(b"scnr");
+/// Device class: output.
 pub const CLASS_OUTPUT: Signature = Signature::new(b"prtr");
+/// Device class: device link.
 pub const CLASS_LINK: Signature = Signature::new(b"link");
+/// Device class: abstract.
 pub const CLASS_ABSTRACT: Signature = Signature::new(b"abst");
+/// Device class: colour space.
 pub const CLASS_COLORSPACE: Signature = Signature::new(b"spac");
+/// Device class: named colour.
 pub const CLASS_NAMED: Signature = Signature::new(b"nmcl");
+/// Colour space: RGB.
 pub const SPACE_RGB: Signature = Signature::new(b"RGB ");
+/// Colour space: CMYK.
 pub const SPACE_CMYK: Signature = Signature::new(b"CMYK");
+/// Colour space: grey.
 pub const SPACE_GRAY: Signature = Signature::new(b"GRAY");
+/// Colour space: CIELAB.
 pub const SPACE_LAB: Signature = Signature::new(b"Lab ");
+/// Colour space: CIEXYZ.
 pub const SPACE_XYZ: Signature = Signature::new(b"XYZ ");
 
 fn be_u32(b: &[u8], at: usize) -> u32 {
@@ -192,10 +244,12 @@ impl Header {
         })
     }
 
+    /// The tag table entry for `sig`, if the profile has one.
     pub fn tag(&self, sig: &[u8; 4]) -> Option<TagEntry> {
         self.tags.iter().copied().find(|t| t.sig.0 == *sig)
     }
 
+    /// The version as "major.minor.bugfix", e.g. "4.3.0".
     pub fn version_string(&self) -> String {
         let (a, b, c) = self.version;
         format!("{a}.{b}.{c}")
@@ -238,6 +292,7 @@ pub fn tag_type(bytes: &[u8], tag: TagEntry) -> Option<Signature> {
 pub struct ClutTable {
     /// Grid points per input channel.
     pub grid: Vec<u8>,
+    /// Output channels: values per grid node.
     pub outputs: usize,
     /// Entries as stored: first input varies slowest, `outputs` values per
     /// node, normalised to 16-bit codes (8-bit tables are scaled by 257).

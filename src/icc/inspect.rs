@@ -10,24 +10,38 @@ use super::transform::{self, Local, Side};
 use super::{Direction, IccProfile, RenderingIntent, TableUse};
 use crate::color::{LabD50, Xy, Xyz, D50};
 
+/// What `inspect` reports about one profile (the JSON of `inkfit inspect`).
 #[derive(Clone, Debug, Serialize)]
 pub struct ProfileReport {
+    /// The name a user knows it by: the built-in name or the path as given.
     pub name: String,
+    /// True for one of inkfit's built-ins.
     pub builtin: bool,
+    /// ICC version from the header, "major.minor.bugfix".
     pub version: String,
+    /// Device class signature from the header (`mntr`, `prtr`, …).
     pub class: String,
+    /// The class and colour space in words: "an RGB display profile" etc.
     pub class_phrase: String,
+    /// Colour space of the device data, from the header (`RGB `, `CMYK`, …).
     pub color_space: String,
+    /// Profile connection space from the header (`XYZ ` or `Lab `).
     pub pcs: String,
+    /// The profile's description text, if it has one that is not blank.
     pub description: Option<String>,
+    /// The profile's copyright text, if it has one that is not blank.
     pub copyright: Option<String>,
+    /// Creation date and time from the header, "YYYY-MM-DD hh:mm:ss".
     pub created: String,
+    /// Profile size the header declares, bytes.
     pub size_bytes: usize,
     /// mediaWhitePoint tag, XYZ (Y = 1) as stored (D50-adapted in v4).
     pub white_point_xyz: Option<[f64; 3]>,
     /// The media white as CIELAB D50.
     pub white_point_lab: Option<[f64; 3]>,
+    /// "matrix/TRC" for a matrix/TRC profile without an A2B0 tag, else "lookup tables".
     pub model: &'static str,
+    /// Which table serves each of the four intents, both ways.
     pub intents: Vec<IntentTables>,
     /// Matrix RGB profiles: primaries and white as chromaticities before
     /// adaptation to D50 (undone with the chad tag, or Bradford from D50 to
@@ -36,14 +50,20 @@ pub struct ProfileReport {
     /// CMYK output profiles: largest C+M+Y+K (percent) that the Lab → CMYK
     /// table produces, found by sampling; null otherwise.
     pub max_ink: Option<f64>,
+    /// How `max_ink` was found, in words; null when it was not measured.
     pub max_ink_method: Option<String>,
+    /// Signatures of every tag, in tag-table order.
     pub tags: Vec<String>,
 }
 
+/// The tables that serve one intent.
 #[derive(Clone, Debug, Serialize)]
 pub struct IntentTables {
+    /// The intent.
     pub intent: RenderingIntent,
+    /// What converts device values to the connection space (A2Bn).
     pub to_pcs: TableReport,
+    /// What converts connection-space values to device values (B2An).
     pub from_pcs: TableReport,
 }
 
@@ -68,17 +88,24 @@ pub enum TableStatus {
 pub struct TableReport {
     /// How it is served.
     pub status: TableStatus,
+    /// For "own" and "same-as": the intent's own tag.
     pub tag: Option<String>,
     /// For "same-as" and "falls-back": the tag that actually serves.
     pub served_by: Option<String>,
 }
 
+/// Chromaticities (CIE 1931 x, y) of a matrix RGB profile's primaries and white.
 #[derive(Clone, Debug, Serialize)]
 pub struct Primaries {
+    /// Red primary, x and y.
     pub red: [f64; 2],
+    /// Green primary, x and y.
     pub green: [f64; 2],
+    /// Blue primary, x and y.
     pub blue: [f64; 2],
+    /// White point, x and y.
     pub white: [f64; 2],
+    /// How the adaptation to D50 was undone: "chad tag" or Bradford to the media white.
     pub adapted_from: &'static str,
 }
 

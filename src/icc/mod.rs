@@ -26,60 +26,109 @@ pub const MAX_PROFILE_BYTES: usize = 64 << 20;
 /// Errors from loading or using a profile. Each names the profile.
 #[derive(Debug, thiserror::Error)]
 pub enum IccError {
+    /// The header or tag table is not well formed.
     #[error("profile '{name}': {source}")]
     Malformed {
+        /// The profile's name: the built-in name or the path as given.
         name: String,
+        /// What is wrong with the header or tag table.
         #[source]
         source: HeaderError,
     },
+    /// The file could not be read.
     #[error("profile '{name}': cannot read the file: {source}")]
     Read {
+        /// The profile's name: the built-in name or the path as given.
         name: String,
+        /// The read error.
         #[source]
         source: std::io::Error,
     },
+    /// A tag failed its check before lcms2 opened the profile.
     #[error("profile '{name}': {source}")]
     BadTag {
+        /// The profile's name: the built-in name or the path as given.
         name: String,
+        /// What is wrong with the tag.
         #[source]
         source: TagError,
     },
+    /// The path names something other than a regular file.
     #[error("profile '{name}': not a regular file but {what}; give the path of an ICC profile file")]
-    NotAFile { name: String, what: &'static str },
+    NotAFile {
+        /// The profile's name: the path as given.
+        name: String,
+        /// What the path names instead ("a directory", "a FIFO (named pipe)", …).
+        what: &'static str,
+    },
+    /// The profile is larger than [`MAX_PROFILE_BYTES`].
     #[error("profile '{name}': larger than {} MiB, the most inkfit reads for a profile", MAX_PROFILE_BYTES >> 20)]
-    TooLarge { name: String },
+    TooLarge {
+        /// The profile's name: the built-in name or the path as given.
+        name: String,
+    },
+    /// lcms2 refused the profile after inkfit's own checks passed.
     #[error("profile '{name}': lcms2 cannot open it (a damaged or unsupported tag)")]
-    Open { name: String },
+    Open {
+        /// The profile's name: the built-in name or the path as given.
+        name: String,
+    },
+    /// Neither a built-in name nor an existing file.
     #[error("profile '{name}': no such file and no built-in of that name (built-ins: {builtins})")]
-    Unknown { name: String, builtins: String },
+    Unknown {
+        /// The name as given.
+        name: String,
+        /// The built-in names, comma-separated.
+        builtins: String,
+    },
+    /// The profile cannot play the role asked of it (screen or press).
     #[error("profile '{name}' is {found}; {role} needs {expected}")]
     WrongKind {
+        /// The profile's name: the built-in name or the path as given.
         name: String,
+        /// What the profile is, as [`IccProfile::kind_phrase`] words it.
         found: String,
+        /// The role asked of it: the option that names it (`--screen`, `--press`).
         role: &'static str,
+        /// What that role needs.
         expected: &'static str,
     },
+    /// lcms2 could not build a transform from the profile.
     #[error("profile '{name}': cannot build the {what} transform for {intent}")]
     Transform {
+        /// The profile's name: the built-in name or the path as given.
         name: String,
+        /// Which transform: its direction or purpose, in words.
         what: &'static str,
+        /// The rendering intent asked for.
         intent: RenderingIntent,
     },
+    /// A built-in profile could not be made.
     #[error("built-in profile '{name}' could not be made: {detail}")]
-    Builtin { name: String, detail: String },
+    Builtin {
+        /// The built-in name.
+        name: String,
+        /// Why it could not be made.
+        detail: String,
+    },
 }
 
 /// The four ICC rendering intents (ICC.1:2010, 7.2.15).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum RenderingIntent {
+    /// Perceptual: the whole gamut compressed to fit, its appearance kept.
     Perceptual,
+    /// Relative colorimetric: in-gamut colours kept, white mapped to the medium's white.
     Relative,
+    /// Saturation: vivid colours kept vivid, accuracy second.
     Saturation,
+    /// Absolute colorimetric: colours kept as measured, the medium's white included.
     Absolute,
 }
 
 impl RenderingIntent {
+    /// The four intents in ICC order (0 perceptual … 3 absolute).
     pub const ALL: [RenderingIntent; 4] = [
         RenderingIntent::Perceptual,
         RenderingIntent::Relative,
@@ -87,6 +136,7 @@ impl RenderingIntent {
         RenderingIntent::Absolute,
     ];
 
+    /// The matching lcms2 intent.
     pub fn to_lcms(self) -> lcms2::Intent {
         match self {
             RenderingIntent::Perceptual => lcms2::Intent::Perceptual,
@@ -131,7 +181,9 @@ impl fmt::Display for RenderingIntent {
 /// Where a profile came from.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub enum Origin {
+    /// Built into inkfit.
     Builtin,
+    /// Read from this file.
     File(PathBuf),
 }
 
@@ -139,9 +191,13 @@ pub enum Origin {
 pub struct IccProfile {
     /// The name a user knows it by: the built-in name or the path as given.
     pub name: String,
+    /// Where it came from: built in or a file.
     pub origin: Origin,
+    /// The whole profile as read.
     pub bytes: Vec<u8>,
+    /// The parsed header and tag table.
     pub header: Header,
+    /// The profile as lcms2 opened it.
     pub lcms: lcms2::Profile,
 }
 
@@ -171,7 +227,12 @@ pub enum TableUse {
     /// A table of the intent's own, stored once.
     Own(Signature),
     /// The intent's tag exists but holds the same data as another intent's.
-    SameAs { tag: Signature, other: Signature },
+    SameAs {
+        /// The intent's own tag.
+        tag: Signature,
+        /// The tag, first in the tag table, whose data it shares.
+        other: Signature,
+    },
     /// No tag for this intent: lcms2 falls back to the one named.
     FallsBackTo(Signature),
     /// Matrix/TRC model: every intent computes the same colorimetric result.
@@ -220,6 +281,7 @@ impl IccProfile {
         describe_kind(self.header.class, self.header.color_space)
     }
 
+    /// True when the profile is one of inkfit's built-ins.
     pub fn is_builtin(&self) -> bool {
         self.origin == Origin::Builtin
     }

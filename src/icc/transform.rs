@@ -134,7 +134,9 @@ pub fn shared_soft_proof<I: Copy + lcms2::Pod, O: Copy + lcms2::Pod>(
 /// How a screen colour is sent to the press.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct PressMapping {
+    /// The rendering intent from screen to press.
     pub intent: RenderingIntent,
+    /// Black point compensation from screen to press.
     pub bpc: bool,
     /// Show the print relative to the paper as measured (absolute
     /// colorimetric) instead of media-relative.
@@ -189,6 +191,7 @@ fn build<I: Copy + lcms2::Pod, O: Copy + lcms2::Pod>(
 }
 
 impl PressTransforms {
+    /// Builds every transform from `screen` to `press` under `mapping`; a failure names the profile blamed.
     pub fn new(screen: &IccProfile, press: &IccProfile, mapping: PressMapping) -> Result<Self, IccError> {
         let rel = RenderingIntent::Relative;
         let shown = mapping.shown();

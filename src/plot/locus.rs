@@ -19,8 +19,11 @@ pub const C2: f64 = 1.4388e-2;
 pub struct CmfRow {
     /// Wavelength in nm.
     pub nm: f64,
+    /// x̄(λ).
     pub x_bar: f64,
+    /// ȳ(λ).
     pub y_bar: f64,
+    /// z̄(λ).
     pub z_bar: f64,
 }
 

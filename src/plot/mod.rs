@@ -37,8 +37,10 @@ pub enum PlotKind {
 }
 
 impl PlotKind {
+    /// Every kind, in the order listed in messages.
     pub const ALL: [PlotKind; 4] = [PlotKind::Xy, PlotKind::Uv, PlotKind::Ab, PlotKind::Leaf];
 
+    /// The name on the command line: "xy", "uv", "ab" or "leaf".
     pub fn key(self) -> &'static str {
         match self {
             PlotKind::Xy => "xy",
@@ -48,6 +50,7 @@ impl PlotKind {
         }
     }
 
+    /// The kind named `s`; an error for any other name.
     pub fn parse(s: &str) -> Result<PlotKind, PlotError> {
         PlotKind::ALL
             .into_iter()
@@ -64,18 +67,41 @@ impl PlotKind {
 /// Why a figure cannot be made. Each names what was wrong.
 #[derive(Debug, thiserror::Error)]
 pub enum PlotError {
+    /// The kind named is not one inkfit draws.
     #[error("unknown figure kind '{kind}': choose xy, uv, ab or leaf")]
-    UnknownKind { kind: String },
+    UnknownKind {
+        /// The name given.
+        kind: String,
+    },
+    /// No profile was given.
     #[error("no profile to draw: give at least one --profile")]
     NoProfiles,
+    /// A `--lightness` value is not a list of L* values in 0..100.
     #[error("--lightness {value}: each L* must be between 0 and 100")]
-    Lightness { value: String },
+    Lightness {
+        /// The text given.
+        value: String,
+    },
+    /// A `--hue` value is not an angle in 0..360.
     #[error("--hue {value}: the hue angle must be between 0 and 360 degrees")]
-    Hue { value: String },
+    Hue {
+        /// The text given.
+        value: String,
+    },
+    /// A profile cannot be drawn.
     #[error("profile '{name}': {detail}")]
-    Profile { name: String, detail: String },
+    Profile {
+        /// The profile's name.
+        name: String,
+        /// Why, in words.
+        detail: String,
+    },
+    /// The output file does not end in `.svg`.
     #[error("--out '{path}': the figure is SVG, give a file ending in .svg")]
-    OutExtension { path: String },
+    OutExtension {
+        /// The output path given.
+        path: String,
+    },
 }
 
 /// Parses `--lightness 30,50,70`: one or more L* values in 0–100, kept in
@@ -113,12 +139,14 @@ pub enum OutlineMethod {
 /// What a figure draws for one profile.
 #[derive(Clone, Debug)]
 pub struct ProfileLayer {
+    /// The profile's name.
     pub name: String,
     /// The legend text, e.g. "srgb — a display RGB profile".
     pub words: String,
     /// Chromaticity outline (closed, counter-clockwise), in xy; empty for
     /// figures that do not need it.
     pub outline: Vec<Xy>,
+    /// How the outline was found.
     pub method: OutlineMethod,
     /// (L*, contours in a*b*) per requested lightness.
     pub slices: Vec<(f64, Vec<Polyline>)>,
@@ -129,6 +157,7 @@ pub struct ProfileLayer {
 /// A palette colour in a figure.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Swatch {
+    /// The entry's name.
     pub name: String,
     /// CIELAB D50 as the screen shows it.
     pub screen_lab: [f64; 3],
@@ -156,8 +185,11 @@ impl Swatch {
 /// Everything one figure shows.
 #[derive(Clone, Debug)]
 pub struct Figure {
+    /// Which figure.
     pub kind: PlotKind,
+    /// One layer per profile, in the order given.
     pub layers: Vec<ProfileLayer>,
+    /// The palette colours drawn; empty without a palette.
     pub swatches: Vec<Swatch>,
     /// L* of the a*b* slices.
     pub lightness: Vec<f64>,

@@ -89,6 +89,7 @@ pub struct StartTable {
 const START_STEPS: usize = 6;
 
 impl StartTable {
+    /// The start points of `cond`: the grid within its TAC limit, printed through its model.
     pub fn new(cond: &PrintCondition) -> Self {
         let cap = cond.tac_percent() / 100.0 + 1e-9;
         let mut cmyk = Vec::new();

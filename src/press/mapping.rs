@@ -87,6 +87,7 @@ pub const SGCK_KNEE: f64 = 0.9;
 /// curve is used: centred on mid-grey and wide enough to stay close to a
 /// linear compression (a design choice).
 pub const SIGMOID_CENTRE: f64 = 50.0;
+/// See [`SIGMOID_CENTRE`].
 pub const SIGMOID_WIDTH: f64 = 50.0;
 
 /// The gamut mapping of one rendering intent.
@@ -436,7 +437,9 @@ fn sigmoid(x: f64) -> f64 {
 /// The gamut mappings of one press, with its boundary and the source's.
 #[derive(Clone, Debug)]
 pub struct Mapper {
+    /// The press's boundary, from its darkest neutral up.
     pub press: LeafGamut,
+    /// The boundary of the source colours: the surface of the BT.2020 RGB cube.
     pub source: LeafGamut,
 }
 
@@ -444,6 +447,7 @@ pub struct Mapper {
 /// source cube: dense enough that every 1° × 1/200 bin along the boundary
 /// holds samples (checked by the descriptor tests).
 pub const PRESS_SAMPLES: usize = 48;
+/// See [`PRESS_SAMPLES`].
 pub const SOURCE_SAMPLES: usize = 256;
 
 impl Mapper {

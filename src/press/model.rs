@@ -17,8 +17,11 @@ use crate::color::{LabD50, Xyz, D50};
 
 /// Index of each ink in a CMYK quadruple.
 pub const CYAN: usize = 0;
+/// See [`CYAN`].
 pub const MAGENTA: usize = 1;
+/// See [`CYAN`].
 pub const YELLOW: usize = 2;
+/// See [`CYAN`].
 pub const BLACK: usize = 3;
 
 /// A press condition ready to evaluate: the spec plus the Neugebauer
@@ -203,10 +206,12 @@ impl PrintCondition {
         }
     }
 
+    /// The spec the condition was built from.
     pub fn spec(&self) -> &PressSpec {
         &self.spec
     }
 
+    /// The condition's short name, e.g. `offset-coated`.
     pub fn name(&self) -> &str {
         &self.spec.name
     }

@@ -11,10 +11,15 @@ use crate::color::LabD50;
 /// chromatic overprints, all absolute CIELAB (D50).
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Aims {
+    /// The unprinted paper.
     pub paper: LabD50,
+    /// Solid cyan.
     pub cyan: LabD50,
+    /// Solid magenta.
     pub magenta: LabD50,
+    /// Solid yellow.
     pub yellow: LabD50,
+    /// Solid black.
     pub black: LabD50,
     /// Cyan + magenta (blue).
     pub cyan_magenta: LabD50,
@@ -33,6 +38,7 @@ pub struct PressSpec {
     pub name: String,
     /// One-line human description, written into the profile.
     pub description: String,
+    /// The colorimetric aims the model is built to.
     pub aims: Aims,
     /// Designed tone value increase at 50 % nominal, per ink (C, M, Y, K),
     /// as a fraction (0.14 = 14 %). Allowed range 0..=0.25 so that the
@@ -45,7 +51,7 @@ pub struct PressSpec {
     /// Black generation used when inverting the model.
     pub gcr: GcrCurve,
     /// Floor of the black-overprint rule as a fraction of the paper's
-    /// tristimulus value (see [`black_overprint`]).
+    /// tristimulus value (see [`super::model::black_overprint`]).
     pub black_overprint_floor: f64,
 }
 

@@ -97,6 +97,7 @@ impl ExactModel {
         })
     }
 
+    /// For a grey (`channels` 1) or RGB screen image in profile `input`, proofed on `press` under `mapping`.
     pub fn new(
         input: &IccProfile,
         channels: usize,

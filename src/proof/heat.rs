@@ -51,6 +51,7 @@ pub struct HeatScale {
 }
 
 impl HeatScale {
+    /// Renders the scale through the built-in sRGB profile.
     pub fn new() -> Result<Self, IccError> {
         let srgb = IccProfile::load("srgb")?;
         let t: Local<[f64; 3], [u8; 3]> = transform::local(

@@ -145,6 +145,7 @@ pub struct ProofOutput {
     pub proof: Vec<u8>,
     /// The ΔE00 map: 8-bit sRGB samples, when asked for.
     pub map: Option<Vec<u8>>,
+    /// Running totals of the per-pixel ΔE00 and gamut flags.
     pub tally: Tally,
 }
 
@@ -215,6 +216,7 @@ impl ProofEngine {
         })
     }
 
+    /// The exact per-colour model behind the table.
     pub fn exact(&self) -> &ExactModel {
         &self.exact
     }

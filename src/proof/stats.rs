@@ -36,10 +36,15 @@ pub const TOP_DE00: f32 = ((BINS - 1) as f64 * BIN) as f32;
 /// Running totals over some pixels; merge with [`Tally::merge`].
 #[derive(Clone, Debug)]
 pub struct Tally {
+    /// Pixel counts per ΔE00 bin ([`BINS`] bins of [`BIN`]).
     pub hist: Vec<u32>,
+    /// Sum of the unbinned ΔE00 values.
     pub sum: f64,
+    /// The largest unbinned ΔE00.
     pub max: f32,
+    /// Pixels that fail the gamut test.
     pub outside_gamut: u64,
+    /// Pixels added.
     pub pixels: u64,
 }
 
@@ -50,6 +55,7 @@ impl Default for Tally {
 }
 
 impl Tally {
+    /// An empty tally.
     pub fn new() -> Self {
         Self {
             hist: vec![0; BINS],
@@ -71,6 +77,7 @@ impl Tally {
         self.pixels += 1;
     }
 
+    /// The totals of `self` and `other` together.
     pub fn merge(mut self, other: Tally) -> Tally {
         for (a, b) in self.hist.iter_mut().zip(&other.hist) {
             *a += b;
@@ -108,6 +115,7 @@ impl Tally {
         n as f64 / self.pixels as f64
     }
 
+    /// The statistics of the pixels added, rounded for output.
     pub fn summary(&self) -> DeltaStats {
         let share = |t| round(self.share_above(t), 6);
         DeltaStats {
@@ -148,22 +156,34 @@ use crate::precision::round;
 /// Shares (0..1) of pixels with ΔE00 above 1, 2, 3, 5 and 10.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct ShareAbove {
+    /// Share with ΔE00 above 1.
     pub above_1: f64,
+    /// Share with ΔE00 above 2.
     pub above_2: f64,
+    /// Share with ΔE00 above 3.
     pub above_3: f64,
+    /// Share with ΔE00 above 5.
     pub above_5: f64,
+    /// Share with ΔE00 above 10.
     pub above_10: f64,
 }
 
 /// The statistics of one proof. ΔE00 to 2 decimals, shares to 6.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize)]
 pub struct DeltaStats {
+    /// Pixels counted.
     pub pixels: u64,
+    /// Shares of pixels above each threshold.
     pub share_above: ShareAbove,
+    /// Mean ΔE00.
     pub mean: f64,
+    /// Median ΔE00 (nearest rank, binned).
     pub p50: f64,
+    /// 95th percentile ΔE00 (nearest rank, binned).
     pub p95: f64,
+    /// 99th percentile ΔE00 (nearest rank, binned).
     pub p99: f64,
+    /// The largest ΔE00.
     pub max: f64,
     /// Share of pixels whose colour fails the round-trip gamut test.
     pub outside_gamut: f64,

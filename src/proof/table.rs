@@ -47,6 +47,7 @@ impl DeltaTable {
         Some(Self { channels: ch, n, nodes })
     }
 
+    /// Nodes along each input axis of the grid.
     pub fn nodes_per_axis(&self) -> usize {
         self.n
     }

@@ -30,6 +30,7 @@ fn pct(share: f64) -> String {
     format!("{:.1} %", share * 100.0)
 }
 
+/// Writes the `gamut` result as text.
 pub fn render(w: &mut dyn Write, r: &GamutReport) -> io::Result<()> {
     let mut t = Table::new(&[
         ("profile", Align::Left),

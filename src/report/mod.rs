@@ -30,6 +30,7 @@ pub fn lab3(v: [f64; 3]) -> String {
     format!("{:>5} {:>6} {:>6}", fixed(v[0], 1), fixed(v[1], 1), fixed(v[2], 1))
 }
 
+/// Writes the `check` result as text; with `color` the verdict cells are painted in ANSI colour.
 pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Result<()> {
     writeln!(w, "palette  {}", r.palette)?;
     writeln!(w, "screen   {}", r.conditions.screen)?;
@@ -138,21 +139,30 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
 /// The four colour differences between two colours.
 #[derive(Clone, Debug, Serialize)]
 pub struct DeltaReport {
+    /// The first colour.
     pub a: DeltaColor,
+    /// The second colour.
     pub b: DeltaColor,
+    /// ΔE*ab (CIE 1976).
     pub de76: f64,
+    /// ΔE*94 (CIE 1994), with `a` as the reference.
     pub de94: f64,
+    /// ΔE00 (CIEDE2000).
     pub de00: f64,
+    /// ΔE CMC (l:c 2:1), with `a` as the reference.
     pub cmc: f64,
 }
 
+/// One colour of a `delta` comparison.
 #[derive(Clone, Debug, Serialize)]
 pub struct DeltaColor {
+    /// The colour text as given.
     pub input: String,
     /// CIELAB D50.
     pub lab: [f64; 3],
 }
 
+/// Writes the `delta` result as text.
 pub fn render_delta(w: &mut dyn Write, r: &DeltaReport) -> io::Result<()> {
     for (label, c) in [("A", &r.a), ("B", &r.b)] {
         writeln!(
@@ -191,6 +201,7 @@ fn table_words(t: &TableReport) -> String {
     }
 }
 
+/// Writes the `inspect` result as text.
 pub fn render_inspect(w: &mut dyn Write, r: &ProfileReport) -> io::Result<()> {
     let opt = |o: &Option<String>| o.clone().unwrap_or_else(|| "(none)".to_string());
     writeln!(
@@ -250,6 +261,7 @@ pub fn render_inspect(w: &mut dyn Write, r: &ProfileReport) -> io::Result<()> {
     writeln!(w, "tags         {}", r.tags.join(" "))
 }
 
+/// Writes the list of built-in profiles as a table.
 pub fn render_profiles(w: &mut dyn Write, list: &[BuiltinInfo]) -> io::Result<()> {
     let mut t = Table::new(&[
         ("name", Align::Left),

@@ -3,26 +3,34 @@
 
 use std::io::{self, Write};
 
+/// How a column's cells are aligned.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Align {
+    /// Padded on the right (the last column is not padded).
     Left,
+    /// Padded on the left.
     Right,
 }
 
 /// A cell's optional emphasis; only drawn when colour is on.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Tone {
+    /// No emphasis.
     Plain,
+    /// Drawn green.
     Good,
+    /// Drawn bold red.
     Bad,
 }
 
+/// A text table: a header row and rows of cells.
 pub struct Table {
     headers: Vec<(String, Align)>,
     rows: Vec<Vec<(String, Tone)>>,
 }
 
 impl Table {
+    /// A table with these column headers and alignments, and no rows.
     pub fn new(headers: &[(&str, Align)]) -> Self {
         Self {
             headers: headers.iter().map(|(h, a)| (h.to_string(), *a)).collect(),
@@ -30,10 +38,12 @@ impl Table {
         }
     }
 
+    /// Adds a row of cells; cells beyond the headers are not drawn.
     pub fn row(&mut self, cells: Vec<(String, Tone)>) {
         self.rows.push(cells);
     }
 
+    /// Writes the table, with the tones painted when `color` is on.
     pub fn write(&self, w: &mut dyn Write, color: bool) -> io::Result<()> {
         let n = self.headers.len();
         let mut width: Vec<usize> = self.headers.iter().map(|(h, _)| h.chars().count()).collect();

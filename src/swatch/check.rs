@@ -41,22 +41,30 @@ pub fn over_ink_limit(ink_total: f64, limit_percent: f64) -> bool {
 /// Why a palette could not be checked.
 #[derive(Debug, thiserror::Error)]
 pub enum CheckError {
+    /// A profile could not be loaded or a transform built.
     #[error(transparent)]
     Icc(#[from] IccError),
     /// A colour that the profiles turn into no finite number: no NaN or
     /// infinity may reach a table or JSON.
     #[error("palette '{file}', line {line}: \"{input}\" gives no finite {what} through these profiles")]
     NotFinite {
+        /// The palette file as named.
         file: String,
+        /// The entry's line (CSV, text) or entry number (JSON), 1-based.
         line: usize,
+        /// The colour text as given.
         input: String,
+        /// Which value is not finite ("press CMYK", "printed CIELAB", …).
         what: &'static str,
     },
 }
 
+/// How a palette is checked.
 #[derive(Clone, Copy, Debug)]
 pub struct CheckOptions {
+    /// How screen colours are sent to the press, and how the print is shown.
     pub mapping: PressMapping,
+    /// The largest ΔE00 from screen to print counted as within tolerance.
     pub tolerance: f64,
     /// The press's total-ink limit, normally the one its gamut was computed
     /// with ([`crate::gamut::Gamut::ink_limit`]) or [`InkLimit::measure`];
@@ -64,15 +72,20 @@ pub struct CheckOptions {
     pub ink_limit: Option<InkLimit>,
 }
 
+/// One palette entry as checked (an element of `entries` in the JSON of `check`).
 #[derive(Clone, Debug, Serialize)]
 pub struct CheckedEntry {
+    /// The entry's name.
     pub name: String,
+    /// The colour text as given.
     pub input: String,
+    /// The entry's line (CSV, text) or entry number (JSON), 1-based.
     pub line: usize,
     /// CIELAB D50 of the colour as the screen shows it.
     pub screen_lab: [f64; 3],
     /// Press CMYK in percent.
     pub press_cmyk: [f64; 4],
+    /// C + M + Y + K of `press_cmyk`, percent.
     pub ink_total: f64,
     /// The press CMYK needs more ink than the press's limit (beyond
     /// [`INK_LIMIT_MARGIN`]); a press colour that does is not printable.
@@ -80,7 +93,9 @@ pub struct CheckedEntry {
     /// CIELAB D50 of that CMYK as printed (media-relative, or absolute with
     /// `paper_white`).
     pub printed_lab: [f64; 3],
+    /// CIEDE2000 from `screen_lab` to `printed_lab`.
     pub delta_e00: f64,
+    /// The colour can be printed: within the press gamut, and for a press colour not over the ink limit.
     pub in_gamut: bool,
     /// CIEDE2000 of the colorimetric round trip (behind `in_gamut` with the
     /// round-trip test).
@@ -90,16 +105,24 @@ pub struct CheckedEntry {
     /// test, which measures no distance.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub outside_by: Option<f64>,
+    /// `delta_e00` is no more than the tolerance.
     pub within_tolerance: bool,
 }
 
+/// Counts and ΔE00 figures over all entries of a check.
 #[derive(Clone, Debug, Serialize)]
 pub struct CheckSummary {
+    /// Entries checked.
     pub count: usize,
+    /// Entries whose ΔE00 exceeds the tolerance.
     pub beyond_tolerance: usize,
+    /// Entries not in gamut.
     pub out_of_gamut: usize,
+    /// Entries whose press CMYK is over the ink limit.
     pub over_ink_limit: usize,
+    /// The largest ΔE00 of any entry.
     pub max_delta_e00: f64,
+    /// The mean ΔE00 over all entries (0 for none).
     pub mean_delta_e00: f64,
     /// Name of the entry with the largest ΔE00.
     pub worst: String,
@@ -120,6 +143,7 @@ pub enum InkLimitSource {
 pub struct CheckInkLimit {
     /// Percent, C + M + Y + K.
     pub percent: f64,
+    /// Where the limit came from: measured from the press profile or given.
     pub source: InkLimitSource,
 }
 
@@ -136,15 +160,19 @@ impl From<InkLimit> for CheckInkLimit {
     }
 }
 
+/// The result of checking one palette against one press (the JSON of `check`).
 #[derive(Clone, Debug, Serialize)]
 pub struct CheckReport {
+    /// The palette file as named.
     pub palette: String,
     /// Profiles, mapping, tolerance, gamut test and notes.
     #[serde(flatten)]
     pub conditions: Conditions,
     /// The total-ink limit every entry's CMYK is held to; null when unknown.
     pub ink_limit: Option<CheckInkLimit>,
+    /// Every entry, in palette order.
     pub entries: Vec<CheckedEntry>,
+    /// Counts and ΔE00 figures over all entries.
     pub summary: CheckSummary,
 }
 

@@ -15,9 +15,11 @@ use crate::color::css::{parse_color, ColorInput, ColorParseError};
 /// One palette entry as the designer wrote it.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Entry {
+    /// Its name; the colour text itself when the file gives none.
     pub name: String,
     /// The colour text exactly as given.
     pub input: String,
+    /// The colour the text parses to.
     pub color: ColorInput,
     /// Where it was written: a line number (CSV, text) or entry number (JSON), 1-based.
     pub line: usize,
@@ -26,7 +28,9 @@ pub struct Entry {
 /// A palette: its entries in file order.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Palette {
+    /// The file it was read from, as named.
     pub source: String,
+    /// The entries in file order.
     pub entries: Vec<Entry>,
 }
 
@@ -34,40 +38,93 @@ pub struct Palette {
 /// applies, the line.
 #[derive(Debug, thiserror::Error)]
 pub enum PaletteError {
+    /// The file could not be read.
     #[error("palette '{file}': cannot read: {source}")]
     Read {
+        /// The palette file as named.
         file: String,
+        /// The read error.
         #[source]
         source: std::io::Error,
     },
+    /// A colour in a CSV or text palette does not parse.
     #[error("palette '{file}', line {line}: {source}")]
     Color {
+        /// The palette file as named.
         file: String,
+        /// The line, 1-based.
         line: usize,
+        /// Why the colour does not parse.
         #[source]
         source: ColorParseError,
     },
+    /// A colour in a JSON palette does not parse.
     #[error("palette '{file}', entry {entry}: {source}")]
     JsonColor {
+        /// The palette file as named.
         file: String,
+        /// The entry, 1-based.
         entry: usize,
+        /// Why the colour does not parse.
         #[source]
         source: ColorParseError,
     },
+    /// A line of a CSV or text palette is not well formed.
     #[error("palette '{file}', line {line}: {message}")]
-    Syntax { file: String, line: usize, message: String },
+    Syntax {
+        /// The palette file as named.
+        file: String,
+        /// The line, 1-based.
+        line: usize,
+        /// What is wrong, in words.
+        message: String,
+    },
+    /// The file as a whole does not have the shape of its format.
     #[error("palette '{file}': {message}")]
-    Format { file: String, message: String },
+    Format {
+        /// The palette file as named.
+        file: String,
+        /// What is wrong, in words.
+        message: String,
+    },
+    /// The palette holds no colours.
     #[error("palette '{file}': no colours in it")]
-    Empty { file: String },
+    Empty {
+        /// The palette file as named.
+        file: String,
+    },
+    /// The file is larger than [`MAX_PALETTE_BYTES`].
     #[error("palette '{file}': larger than {limit} MiB; inkfit reads palettes up to that size")]
-    TooLarge { file: String, limit: u64 },
+    TooLarge {
+        /// The palette file as named.
+        file: String,
+        /// The largest size read, MiB.
+        limit: u64,
+    },
+    /// The palette has more than [`MAX_ENTRIES`] entries.
     #[error("palette '{file}' has {count} entries; inkfit checks up to {limit} at a time")]
-    TooMany { file: String, count: usize, limit: usize },
+    TooMany {
+        /// The palette file as named.
+        file: String,
+        /// Its entries.
+        count: usize,
+        /// The most entries checked at a time.
+        limit: usize,
+    },
+    /// A line is not UTF-8.
     #[error("palette '{file}', line {line}: not UTF-8 text")]
-    NotText { file: String, line: usize },
+    NotText {
+        /// The palette file as named.
+        file: String,
+        /// The line, 1-based.
+        line: usize,
+    },
+    /// The path names a folder.
     #[error("palette '{file}' is a folder, not a file")]
-    Folder { file: String },
+    Folder {
+        /// The palette file as named.
+        file: String,
+    },
 }
 
 /// Largest palette file read, in bytes: 16 MiB holds several hundred
@@ -86,8 +143,11 @@ pub const MAX_ENTRIES: usize = 4_096;
 /// The palette file formats inkfit reads.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Format {
+    /// Comma-separated values with a header row.
     Csv,
+    /// JSON.
     Json,
+    /// Plain text, one colour a line.
     Text,
 }
 

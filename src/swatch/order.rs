@@ -30,8 +30,11 @@ pub const DEFAULT_MIN_STEP: f64 = 5.0;
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "lowercase")]
 pub enum Scheme {
+    /// Unordered categories: no lightness order is checked.
     Qualitative,
+    /// One scale from one end to the other: the lightness order applies.
     Sequential,
+    /// Two arms from a middle entry out to each end: order on each arm, and symmetry.
     Diverging,
 }
 
@@ -91,15 +94,25 @@ impl std::fmt::Display for Trend {
 pub struct Step {
     /// The arm the step lies on.
     pub arm: ArmName,
+    /// The entry the step starts at.
     pub from: usize,
+    /// The entry the step ends at.
     pub to: usize,
+    /// ΔE00 of the step on screen.
     pub screen: f64,
+    /// ΔE00 of the step as printed.
     pub print: f64,
+    /// Change in L* across the step on screen.
     pub screen_dl: f64,
+    /// Change in L* across the step as printed.
     pub print_dl: f64,
+    /// On screen the step runs against its arm's direction (or not at all).
     pub reverses_screen: bool,
+    /// As printed the step runs against its arm's direction (or not at all).
     pub reverses_print: bool,
+    /// The step's screen ΔE00 is below the minimum step.
     pub too_small_screen: bool,
+    /// The step's printed ΔE00 is below the minimum step.
     pub too_small_print: bool,
 }
 
@@ -109,6 +122,7 @@ pub struct Arm {
     /// Which arm.
     pub arm: ArmName,
     /// Its entries, numbered from 1, in order away from the start.
+    /// The arm's entries, numbered from 1, in order away from its start.
     pub entries: Vec<usize>,
     /// How lightness runs along the arm, from the screen colours.
     pub direction: Trend,
@@ -117,12 +131,17 @@ pub struct Arm {
 /// Matching steps of the two arms of a diverging scheme.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct SymmetryStep {
+    /// The step's place along both arms, from 1 at the middle.
     pub step: usize,
+    /// Printed ΔE00 of the step on the low arm.
     pub low: f64,
+    /// Printed ΔE00 of the step on the high arm.
     pub high: f64,
+    /// The absolute difference between `low` and `high`, ΔE00.
     pub difference: f64,
 }
 
+/// How evenly the two arms of a diverging scheme step in print.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Symmetry {
     /// Printed ΔE00 of matching steps.
@@ -131,18 +150,28 @@ pub struct Symmetry {
     pub max_difference: f64,
     /// Total printed ΔE00 of the shorter-length parts of the arms, low / high.
     pub low_total: f64,
+    /// The same total for the high arm.
     pub high_total: f64,
 }
 
+/// The lightness-order analysis of a sequential or diverging palette.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Order {
+    /// The smallest ΔE00 a step may have.
     pub min_step: f64,
+    /// No step runs against its arm's direction on screen.
     pub monotonic_screen: bool,
+    /// No step runs against its arm's direction in print.
     pub monotonic_print: bool,
+    /// The arms: one for a sequential scheme, two for a diverging one.
     pub arms: Vec<Arm>,
+    /// Every step between neighbours, arm by arm.
     pub steps: Vec<Step>,
+    /// Largest over smallest screen step ΔE00; null when there is no step or one is 0.
     pub unevenness_screen: Option<f64>,
+    /// Largest over smallest printed step ΔE00; null when there is no step or one is 0.
     pub unevenness_print: Option<f64>,
+    /// Diverging schemes only: how the two arms compare in print.
     pub symmetry: Option<Symmetry>,
 }
 

@@ -52,63 +52,92 @@ pub const UNCHANGED_BELOW: f64 = 0.05;
 
 const H: f64 = 0.01;
 
+/// The repair method, in words, as the report states it.
 pub const METHOD: &str =
     "quadratic penalty method, projected gradient descent over all entries jointly in CIELAB D50; \
 gamut as a hard constraint (projection along the segment to the printed colour)";
 
+/// Why a palette could not be repaired.
 #[derive(Debug, thiserror::Error)]
 pub enum RepairError {
+    /// A profile could not be loaded or a transform built.
     #[error(transparent)]
     Icc(#[from] IccError),
+    /// The palette could not be checked.
     #[error(transparent)]
     Check(#[from] super::check::CheckError),
+    /// The survival options are not usable.
     #[error(transparent)]
     Options(#[from] SurvivalError),
+    /// No CIELAB → screen transform could be built from the screen profile.
     #[error("screen profile '{name}': cannot build a CIELAB → screen transform")]
-    ScreenTransform { name: String },
+    ScreenTransform {
+        /// The screen profile's name.
+        name: String,
+    },
 }
 
+/// How a palette is repaired.
 #[derive(Clone, Debug, PartialEq)]
 pub struct RepairOptions {
+    /// The palette checks the repair must make pass.
     pub survival: SurvivalOptions,
+    /// How screen colours are sent to the press, and how the print is shown.
     pub mapping: PressMapping,
     /// Gradient steps per penalty weight.
     pub iterations: usize,
 }
 
+/// One palette entry before and after the repair.
 #[derive(Clone, Debug, Serialize)]
 pub struct RepairedEntry {
+    /// The entry's name.
     pub name: String,
+    /// The colour text as given.
     pub original: String,
+    /// The colour text after the repair: `#rrggbb` when moved, else the original text.
     pub repaired: String,
+    /// The repaired text differs from the original.
     pub changed: bool,
     /// ΔE00 from the original to the repaired screen colour.
     pub moved: f64,
+    /// CIELAB D50 of the original colour on screen.
     pub original_screen_lab: [f64; 3],
+    /// CIELAB D50 of the repaired colour on screen.
     pub repaired_screen_lab: [f64; 3],
+    /// Press CMYK of the repaired colour, percent.
     pub press_cmyk: [f64; 4],
+    /// CIELAB D50 of the repaired colour as printed.
     pub printed_lab: [f64; 3],
+    /// The repaired colour is inside the press gamut.
     pub in_gamut: bool,
 }
 
+/// The result of repairing one palette (the JSON of `repair`).
 #[derive(Clone, Debug, Serialize)]
 pub struct RepairReport {
+    /// The palette file as named.
     pub palette: String,
     /// Profiles, mapping, tolerance, gamut test and notes of the checks run
     /// before and after the repair.
     #[serde(flatten)]
     pub conditions: Conditions,
+    /// The method used: [`METHOD`].
     pub method: &'static str,
     /// True when the palette already passed and comes back as it was.
     pub unchanged: bool,
+    /// Every entry, in palette order.
     pub entries: Vec<RepairedEntry>,
+    /// The palette checks before the repair.
     pub before: Survival,
+    /// The palette checks after the repair.
     pub after: Survival,
     /// What still fails after the repair (empty when everything holds).
     pub unmet: Vec<String>,
 }
 
 impl RepairReport {
+    /// True when nothing is left unmet.
     pub fn all_met(&self) -> bool {
         self.unmet.is_empty()
     }

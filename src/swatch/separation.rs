@@ -24,7 +24,9 @@ pub const MAX_ENTRIES_LISTING_ALL_PAIRS: usize = 64;
 /// One pair of entries, numbered from 1 in file order.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Pair {
+    /// The first entry of the pair.
     pub a: usize,
+    /// The second entry of the pair.
     pub b: usize,
     /// ΔE00 on screen.
     pub screen: f64,
@@ -35,11 +37,17 @@ pub struct Pair {
 /// A pair that does not survive print.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct FlaggedPair {
+    /// The first entry of the pair, numbered from 1.
     pub a: usize,
+    /// The second entry of the pair, numbered from 1.
     pub b: usize,
+    /// The first entry's name.
     pub a_name: String,
+    /// The second entry's name.
     pub b_name: String,
+    /// ΔE00 on screen.
     pub screen: f64,
+    /// ΔE00 as printed.
     pub print: f64,
     /// Printed ΔE00 below the floor.
     pub below_floor: bool,
@@ -57,16 +65,22 @@ pub enum PairsListed {
     Flagged,
 }
 
+/// How far apart every pair of entries stays, on screen and in print.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Separation {
+    /// The printed ΔE00 floor every pair is held to.
     pub min_separation: f64,
+    /// The smallest ΔE00 between two entries on screen (0 for fewer than two entries).
     pub min_screen: f64,
+    /// The smallest ΔE00 between two entries as printed (0 for fewer than two entries).
     pub min_print: f64,
     /// The closest pair on screen and in print, numbered from 1.
     pub min_screen_pair: Option<[usize; 2]>,
+    /// The closest pair in print, numbered from 1.
     pub min_print_pair: Option<[usize; 2]>,
     /// Which pairs `pairs` lists.
     pub pairs_listed: PairsListed,
+    /// The pairs listed: every pair, or only the flagged ones (see `pairs_listed`).
     pub pairs: Vec<Pair>,
     /// Flagged pairs, smallest printed ΔE00 first.
     pub flagged: Vec<FlaggedPair>,

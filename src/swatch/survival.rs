@@ -14,6 +14,7 @@ use crate::precision::round;
 /// What to check beyond the per-colour results.
 #[derive(Clone, Debug, PartialEq)]
 pub struct SurvivalOptions {
+    /// The kind of palette, which decides whether the order checks apply.
     pub scheme: Scheme,
     /// ΔE00 floor for every pair in print.
     pub min_separation: f64,
@@ -41,15 +42,19 @@ impl Default for SurvivalOptions {
 /// Why the options cannot be used.
 #[derive(Debug, thiserror::Error, PartialEq)]
 pub enum SurvivalError {
+    /// The separation floor is negative or not a number.
     #[error("--min-separation must be a ΔE00 of 0 or more, not {0}")]
     MinSeparation(f64),
+    /// The minimum step is negative or not a number.
     #[error("--min-step must be a ΔE00 of 0 or more, not {0}")]
     MinStep(f64),
+    /// The deficiency severity is outside 0..1 or not a number.
     #[error("--cvd-severity must be between 0 and 1, not {0}")]
     Severity(f64),
 }
 
 impl SurvivalOptions {
+    /// Checks that the floors are finite and not negative and the severity lies in 0..1.
     pub fn validate(&self) -> Result<(), SurvivalError> {
         let ok = |v: f64| v.is_finite() && v >= 0.0;
         if !ok(self.min_separation) {
@@ -77,12 +82,14 @@ impl SurvivalOptions {
 /// Separation as seen with one deficiency.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct CvdResult {
+    /// The severity simulated, 0 (normal vision) to 1 (dichromacy).
     pub severity: f64,
     /// Simulated CIELAB D50 of each printed colour, in file order.
     pub simulated_lab: Vec<[f64; 3]>,
     /// Smallest ΔE00 between simulated screen colours and between simulated
     /// printed colours.
     pub min_screen: f64,
+    /// The same for the simulated printed colours.
     pub min_print: f64,
     /// Pairs whose simulated printed ΔE00 is below the floor or lost more
     /// than half of the simulated screen ΔE00; smallest first.
@@ -92,10 +99,13 @@ pub struct CvdResult {
 /// One object per deficiency asked for.
 #[derive(Clone, Debug, Default, PartialEq, Serialize)]
 pub struct CvdReport {
+    /// The protan simulation, if asked for.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub protan: Option<CvdResult>,
+    /// The deutan simulation, if asked for.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub deutan: Option<CvdResult>,
+    /// The tritan simulation, if asked for.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub tritan: Option<CvdResult>,
 }
@@ -134,7 +144,9 @@ pub enum CheckKind {
 /// One failed check, in words.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Finding {
+    /// Which check failed.
     pub check: CheckKind,
+    /// What failed, in words.
     pub detail: String,
 }
 
@@ -144,12 +156,17 @@ impl Finding {
     }
 }
 
+/// The palette analysis beyond the per-colour results: separation, order and colour-vision deficiency.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Survival {
+    /// The kind of palette.
     pub scheme: Scheme,
+    /// How far apart the entries stay.
     pub separation: Separation,
+    /// The lightness order, for sequential and diverging schemes.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub order: Option<Order>,
+    /// Separation under each deficiency asked for; absent when none was.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub cvd: Option<CvdReport>,
     /// True when separation, order and every deficiency pass (the palette
@@ -277,6 +294,7 @@ pub fn analyse_check(r: &CheckReport, opts: &SurvivalOptions) -> Survival {
 /// `--strict` exits 1 exactly when `passes` is false.
 #[derive(Clone, Debug, PartialEq, Serialize)]
 pub struct Verdict {
+    /// True when everything passes.
     pub passes: bool,
     /// What failed, per-colour checks first, then the palette checks.
     pub reasons: Vec<Finding>,
@@ -342,9 +360,12 @@ pub fn verdict(r: &CheckReport, s: &Survival) -> Verdict {
 /// one `verdict`.
 #[derive(Serialize)]
 pub struct CheckWithSurvival<'a> {
+    /// The check's own result.
     #[serde(flatten)]
     pub check: &'a CheckReport,
+    /// The palette analysis.
     #[serde(flatten)]
     pub survival: &'a Survival,
+    /// The one verdict.
     pub verdict: &'a Verdict,
 }

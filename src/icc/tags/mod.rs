@@ -42,65 +42,112 @@ pub const XYZ_LIMIT: f64 = 5.0;
 /// Why a tag cannot be right. Each names the tag.
 #[derive(Clone, Debug, PartialEq, thiserror::Error)]
 pub enum TagError {
+    /// The tag has a type it must not have.
     #[error("tag '{tag}' has type '{found}', but it must be {allowed} ({clause})")]
     WrongType {
+        /// The tag's signature.
         tag: Signature,
+        /// The type the tag has.
         found: Signature,
+        /// The types allowed, in words.
         allowed: &'static str,
+        /// The clause of the ICC specification that says so.
         clause: &'static str,
     },
+    /// The tag is shorter than its type or contents need.
     #[error("tag '{tag}' ({kind}) needs {need} bytes, but the tag holds {size}")]
     TooShort {
+        /// The tag's signature.
         tag: Signature,
+        /// The tag's type, in words.
         kind: &'static str,
+        /// The bytes it needs.
         need: u64,
+        /// The bytes it holds.
         size: usize,
     },
+    /// A lookup table's channel count does not match the profile.
     #[error("tag '{tag}': the table has {found} {side} channels, but {wanted_by} has {expected}")]
     Channels {
+        /// The tag's signature.
         tag: Signature,
+        /// Which side of the table: input or output.
         side: &'static str,
+        /// The table's channel count.
         found: usize,
         /// What fixes the count: "the data colour space 'CMYK'", say.
         wanted_by: String,
+        /// The channel count the profile asks for.
         expected: usize,
     },
+    /// The header names a colour space that is not an ICC colour space.
     #[error("tag '{tag}': the profile's {role} '{space}' is not an ICC colour space, so the table's channels cannot be checked")]
     UnknownSpace {
+        /// The tag's signature.
         tag: Signature,
+        /// Which header field: the data colour space or the connection space.
         role: &'static str,
+        /// The signature found there.
         space: Signature,
     },
+    /// A CLUT has fewer than 2 grid points along one input.
     #[error("tag '{tag}': the CLUT has {points} grid points along {along}; a CLUT needs at least 2 ({clause})")]
     GridPoints {
+        /// The tag's signature.
         tag: Signature,
+        /// Which input, in words.
         along: String,
+        /// The grid points along it.
         points: u8,
+        /// The clause of the ICC specification that says so.
         clause: &'static str,
     },
+    /// A CLUT holds more values than inkfit accepts.
     #[error("tag '{tag}': a CLUT of {grid} nodes × {outputs} outputs exceeds the limit of {limit} values")]
     ClutTooLarge {
+        /// The tag's signature.
         tag: Signature,
+        /// The grid, in words (nodes per input).
         grid: String,
+        /// Output channels per node.
         outputs: usize,
+        /// The most values accepted.
         limit: u64,
     },
+    /// A part of the tag lies past the tag's end.
     #[error("tag '{tag}': {part} needs bytes {start}…{end}, but the tag has {size}")]
     OutOfTag {
+        /// The tag's signature.
         tag: Signature,
+        /// Which part, in words.
         part: String,
+        /// Where the part starts, bytes from the start of the tag.
         start: u64,
+        /// Where the part ends, bytes from the start of the tag.
         end: u64,
+        /// The tag's size, bytes.
         size: usize,
     },
+    /// The tag's contents do not fit together.
     #[error("tag '{tag}': {detail}")]
-    Structure { tag: Signature, detail: String },
+    Structure {
+        /// The tag's signature.
+        tag: Signature,
+        /// What is wrong, in words.
+        detail: String,
+    },
+    /// A decoded value is outside a plausible range.
     #[error("tag '{tag}': {what} is {value:.4}, outside the plausible range {lo}…{hi}")]
     Implausible {
+        /// The tag's signature.
         tag: Signature,
+        /// Which value, in words.
         what: String,
+        /// The value found.
         value: f64,
+        /// The lowest plausible value.
         lo: f64,
+        /// The highest plausible value.
         hi: f64,
     },
 }

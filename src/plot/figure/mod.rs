@@ -31,6 +31,7 @@ const STYLES: [(&str, &str); 6] = [
 /// CIE illuminant chromaticities, 2° observer (CIE 015:2018, Table 11.3):
 /// D50 (0.3457, 0.3585) and D65 (0.3127, 0.3290).
 pub const D50_XY: Xy = Xy { x: 0.3457, y: 0.3585 };
+/// See [`D50_XY`].
 pub const D65_XY: Xy = Xy { x: 0.3127, y: 0.3290 };
 
 /// Wavelengths labelled on the spectral locus, nm.
@@ -43,6 +44,7 @@ pub const SLICE_WINDOW_L: f64 = 5.0;
 /// Palette colours within this many degrees of the leaf's hue (and with
 /// C* of at least [`LEAF_MIN_CHROMA`]) are drawn on it.
 pub const LEAF_WINDOW_DEG: f64 = 15.0;
+/// See [`LEAF_WINDOW_DEG`].
 pub const LEAF_MIN_CHROMA: f64 = 5.0;
 
 const FONT: f64 = 12.0;

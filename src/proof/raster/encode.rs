@@ -6,10 +6,15 @@ use super::*;
 
 /// An RGB image to be written: samples as in [`Raster::color`], 3 per pixel.
 pub struct RgbImage<'a> {
+    /// Width, pixels.
     pub width: u32,
+    /// Height, pixels.
     pub height: u32,
+    /// Bits per sample: 8 or 16.
     pub bits: u8,
+    /// The RGB samples, width × height × 3 of them.
     pub rgb: &'a [u8],
+    /// One alpha sample per pixel, same depth as the colour, when present.
     pub alpha: Option<&'a [u8]>,
 }
 

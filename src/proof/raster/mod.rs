@@ -81,6 +81,7 @@ impl DecodeLimits {
         }
     }
 
+    /// The pixel limit in megapixels (10⁶ pixels).
     pub fn megapixels(&self) -> f64 {
         self.max_pixels as f64 / 1e6
     }
@@ -129,40 +130,80 @@ pub fn megapixel_text(pixels: u64) -> String {
 /// Errors reading or writing an image; each names the file.
 #[derive(Debug, thiserror::Error)]
 pub enum RasterError {
+    /// The file could not be read.
     #[error("'{path}': cannot read the file: {source}")]
     Read {
+        /// The image file as named.
         path: String,
+        /// The read error.
         #[source]
         source: std::io::Error,
     },
+    /// The file is not a PNG, JPEG or TIFF image.
     #[error("'{path}': not a PNG, JPEG or TIFF image")]
-    UnknownFormat { path: String },
+    UnknownFormat {
+        /// The image file as named.
+        path: String,
+    },
+    /// The image could not be decoded.
     #[error("'{path}': cannot decode the image: {detail}")]
-    Decode { path: String, detail: String },
+    Decode {
+        /// The image file as named.
+        path: String,
+        /// The decoder's message.
+        detail: String,
+    },
+    /// The channels or bit depth are not supported.
     #[error("'{path}': {layout} images are not supported (grey or RGB, 8 or 16 bits per channel)")]
-    Layout { path: String, layout: String },
+    Layout {
+        /// The image file as named.
+        path: String,
+        /// The layout found, in words.
+        layout: String,
+    },
+    /// The image declares more pixels than the limit.
     #[error(
         "'{path}': declares {width} × {height} pixels ({declared} megapixels), more than the limit of {limit} megapixels"
     )]
     TooManyPixels {
+        /// The image file as named.
         path: String,
+        /// Declared width, pixels.
         width: u32,
+        /// Declared height, pixels.
         height: u32,
+        /// Declared pixels, megapixels, as shown.
         declared: String,
+        /// The limit, megapixels, as shown.
         limit: String,
     },
+    /// The image breaks a bound inkfit sets on what it decodes.
     #[error("'{path}': refused: {detail}")]
-    Bounds { path: String, detail: String },
+    Bounds {
+        /// The image file as named.
+        path: String,
+        /// Why it was refused.
+        detail: String,
+    },
+    /// The image could not be encoded.
     #[error("'{path}': cannot encode the image: {detail}")]
-    Encode { path: String, detail: String },
+    Encode {
+        /// The image file as named.
+        path: String,
+        /// The encoder's message.
+        detail: String,
+    },
 }
 
 /// The file formats read and written.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
 #[serde(rename_all = "lowercase")]
 pub enum FileKind {
+    /// PNG.
     Png,
+    /// JPEG.
     Jpeg,
+    /// TIFF.
     Tiff,
 }
 
@@ -192,6 +233,7 @@ impl FileKind {
         }
     }
 
+    /// The format's name in capitals: "PNG", "JPEG" or "TIFF".
     pub fn name(self) -> &'static str {
         match self {
             FileKind::Png => "PNG",
@@ -204,23 +246,29 @@ impl FileKind {
 /// What an image holds, known without decoding its pixels.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct RasterInfo {
+    /// The file format.
     pub kind: FileKind,
+    /// Width, pixels.
     pub width: u32,
+    /// Height, pixels.
     pub height: u32,
     /// 1 (grey), 3 (RGB) or 4 (CMYK, TIFF only) colour channels.
     pub channels: usize,
     /// 8 or 16 bits per channel.
     pub bits: u8,
+    /// The image has an alpha channel.
     pub has_alpha: bool,
     /// The embedded ICC profile, if any.
     pub icc: Option<Vec<u8>>,
 }
 
 impl RasterInfo {
+    /// Width × height.
     pub fn pixels(&self) -> usize {
         self.width as usize * self.height as usize
     }
 
+    /// Bytes per sample: 1 or 2.
     pub fn bytes_per_sample(&self) -> usize {
         usize::from(self.bits / 8)
     }
@@ -229,6 +277,7 @@ impl RasterInfo {
 /// A decoded image: colour samples interleaved (grey, RGB or CMYK), alpha apart.
 #[derive(Clone, Debug)]
 pub struct Raster {
+    /// What the image holds.
     pub info: RasterInfo,
     /// Colour samples, `channels` per pixel, 1 or 2 bytes each (native order).
     pub color: Vec<u8>,
