@@ -11,6 +11,7 @@ mod gamut;
 pub mod plot;
 mod profiles;
 mod proof;
+mod proof_budget;
 pub mod repair;
 
 use std::io::{IsTerminal, Write};

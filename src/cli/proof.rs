@@ -19,9 +19,11 @@ use std::collections::HashMap;
 use std::io::{IsTerminal, Write};
 use std::path::{Path, PathBuf};
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
-use std::sync::{Condvar, Mutex};
+use std::sync::Mutex;
 
 use clap::Args;
+
+use super::proof_budget::{working_bytes, Budget, WORKING_BUDGET};
 
 use super::{Error, Outcome};
 use super::{IntentArg, ProfileArgs};
@@ -80,90 +82,11 @@ pub struct ProofArgs {
     pub max_pixels: f64,
 }
 
-/// Estimated working memory of the images proofed at once: 1 GiB. An image
-/// whose estimate alone is larger runs by itself.
-pub const WORKING_BUDGET: u64 = 1 << 30;
-
 /// A raster error, with the way out when the image is over the pixel limit.
 fn with_limit_hint(e: RasterError) -> Error {
     match e {
         RasterError::TooManyPixels { .. } => format!("{e}; raise it with --max-pixels MEGAPIXELS").into(),
         e => e.into(),
-    }
-}
-
-/// Estimated peak bytes of proofing one image, stage by stage: decoding
-/// (with what the decoder holds besides: the image crate's TIFF buffer, the
-/// JPEG file and, for progressive JPEG, 2 bytes per sample of DCT
-/// coefficients), splitting alpha off, grey → RGB, the proof (written over
-/// the samples unless proof pixels are larger) and the map, encoding the map
-/// and then the proof (alpha joined back), each encoded file counted at its
-/// raw size. [`proof_one`] drops each buffer once its part is done.
-pub fn working_bytes(info: &RasterInfo, file_len: u64, map: bool) -> u64 {
-    let px = info.pixels() as u64;
-    let bps = info.bytes_per_sample() as u64;
-    let ch = info.channels as u64;
-    let a = u64::from(info.has_alpha);
-    let decoded = (ch + a) * bps;
-    let (extra, file) = match info.kind {
-        FileKind::Tiff if info.channels != 4 => (decoded, 0),
-        FileKind::Jpeg => (2 * ch, file_len),
-        _ => (0, 0),
-    };
-    let m = if map { 3 } else { 0 };
-    let decode = decoded + extra + a * bps;
-    let grey = info.channels == 1 && info.icc.is_none();
-    let expand = if grey { ch * bps + 3 * bps + a * bps } else { 0 };
-    let samples = if grey { 3 * bps } else { ch * bps };
-    let apart = if 3 * bps > samples { 3 * bps } else { 0 };
-    let run = samples + apart + a * bps + m;
-    let proof = 3 * bps;
-    let map_encode = proof + a * bps + 2 * m;
-    let proof_encode = proof + a * bps + a * 4 * bps + (3 + a) * bps;
-    let per_px = decode.max(expand).max(run).max(map_encode).max(proof_encode);
-    px.saturating_mul(per_px).saturating_add(file)
-}
-
-/// Working memory handed out to the images in progress.
-struct Budget {
-    limit: u64,
-    /// Bytes and images in progress.
-    used: Mutex<(u64, usize)>,
-    freed: Condvar,
-}
-
-struct Held<'a> {
-    budget: &'a Budget,
-    bytes: u64,
-}
-
-impl Budget {
-    fn new(limit: u64) -> Self {
-        Self {
-            limit,
-            used: Mutex::new((0, 0)),
-            freed: Condvar::new(),
-        }
-    }
-
-    /// Waits until `bytes` fit beside the images in progress, or none is.
-    fn take(&self, bytes: u64) -> Held<'_> {
-        let mut g = self.used.lock().unwrap_or_else(|e| e.into_inner());
-        while g.1 > 0 && g.0.saturating_add(bytes) > self.limit {
-            g = self.freed.wait(g).unwrap_or_else(|e| e.into_inner());
-        }
-        g.0 += bytes;
-        g.1 += 1;
-        Held { budget: self, bytes }
-    }
-}
-
-impl Drop for Held<'_> {
-    fn drop(&mut self) {
-        let mut g = self.budget.used.lock().unwrap_or_else(|e| e.into_inner());
-        g.0 -= self.bytes;
-        g.1 -= 1;
-        self.budget.freed.notify_all();
     }
 }
 
@@ -244,7 +167,35 @@ struct Job {
     source: ProfileSource,
 }
 
+/// Where proofs and maps go.
+struct Targets {
+    out: Target,
+    map: Option<Target>,
+}
+
+/// Everything checked and built before any pixel is proofed.
+struct Plan {
+    screen: IccProfile,
+    press: IccProfile,
+    mapping: PressMapping,
+    limits: DecodeLimits,
+    /// One engine per distinct (embedded profile, channels, bits).
+    engines: Vec<ProofEngine>,
+    jobs: Vec<Job>,
+    heat: Option<HeatScale>,
+    outputs: Outputs,
+}
+
+/// `inkfit proof`: the plan (every input, output and engine checked and
+/// built), the work (every image proofed, outputs staged, then committed all
+/// together) and the report.
 pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
+    let plan = plan(&a)?;
+    let (plan, images) = work(&a, plan)?;
+    write_report(&a, &plan, images, out)
+}
+
+fn plan(a: &ProofArgs) -> Result<Plan, Error> {
     super::check_tolerance(a.tolerance)?;
     let limits = DecodeLimits::from_megapixels(a.max_pixels).ok_or_else(|| {
         format!(
@@ -252,7 +203,6 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             a.max_pixels
         )
     })?;
-    // The plan.
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
     let mapping = PressMapping {
@@ -261,10 +211,38 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         paper_white: a.paper_white,
     };
     let inputs = expand_inputs(&a.images)?;
-    let out_target = target(&a.out, inputs.len(), "--out")?;
-    let map_target = match &a.delta_map {
+    let targets = targets(a, inputs.len())?;
+    let mut outputs = super::guarded_outputs(&[], &[&screen, &press]);
+    for input in &inputs {
+        outputs.input(input);
+    }
+    let mut plan = Plan {
+        screen,
+        press,
+        mapping,
+        limits,
+        engines: Vec::new(),
+        jobs: Vec::with_capacity(inputs.len()),
+        heat: None,
+        outputs,
+    };
+    let mut engine_of: HashMap<(Option<Vec<u8>>, usize, u8), usize> = HashMap::new();
+    for input in &inputs {
+        let job = plan_job(input, &targets, &mut plan, &mut engine_of)?;
+        plan.jobs.push(job);
+    }
+    if targets.map.is_some() {
+        plan.heat = Some(HeatScale::new()?);
+    }
+    Ok(plan)
+}
+
+/// `--out` and `--delta-map` for `count` inputs; a single map file must be PNG.
+fn targets(a: &ProofArgs, count: usize) -> Result<Targets, Error> {
+    let out = target(&a.out, count, "--out")?;
+    let map = match &a.delta_map {
         Some(p) => {
-            let t = target(p, inputs.len(), "--delta-map")?;
+            let t = target(p, count, "--delta-map")?;
             if let Target::File(f) = &t {
                 if FileKind::from_extension(f) != Some(FileKind::Png) {
                     return Err(format!(
@@ -278,129 +256,132 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
         }
         None => None,
     };
-    let mut outputs = super::guarded_outputs(&[], &[&screen, &press]);
-    for input in &inputs {
-        outputs.input(input);
-    }
-    let mut engines: Vec<ProofEngine> = Vec::new();
-    let mut engine_of: HashMap<(Option<Vec<u8>>, usize, u8), usize> = HashMap::new();
-    let mut jobs = Vec::with_capacity(inputs.len());
-    for input in &inputs {
-        let info = raster::probe_within(input, &limits).map_err(with_limit_hint)?;
-        let (out_path, out_kind) = match &out_target {
-            Target::Dir(d) => {
-                let ext = input.extension().and_then(|e| e.to_str()).unwrap_or("png").to_string();
-                (
-                    d.join(format!("{}.proof.{ext}", stem(input))),
-                    FileKind::from_extension(Path::new(&format!("x.{ext}"))).unwrap_or(info.kind),
-                )
-            }
-            Target::File(f) => (f.clone(), FileKind::from_extension(f).unwrap_or(info.kind)),
-        };
-        if out_kind == FileKind::Jpeg && (info.bits != 8 || info.has_alpha) {
-            return Err(format!(
-                "'{}': JPEG holds 8-bit RGB without alpha; this image is {}-bit{}: write PNG or TIFF",
-                out_path.display(),
-                info.bits,
-                if info.has_alpha { " with alpha" } else { "" }
-            )
-            .into());
-        }
-        outputs.claim(&out_path)?;
-        let map = match &map_target {
-            Some(Target::Dir(d)) => Some((
-                d.join(format!("{}.delta.png", stem(input))),
-                d.join(format!("{}.delta-legend.svg", stem(input))),
-            )),
-            Some(Target::File(f)) => Some((f.clone(), f.with_extension("legend.svg"))),
-            None => None,
-        };
-        if let Some((m, l)) = &map {
-            outputs.claim(m)?;
-            outputs.claim(l)?;
-        }
-        let unusable = |e: &IccError| -> Error {
-            format!("'{}': its embedded ICC profile cannot be used: {e}", input.display()).into()
-        };
-        let embedded = match &info.icc {
-            Some(bytes) => {
-                let name = format!("{} (embedded profile)", input.display());
-                let p = IccProfile::from_bytes(&name, Origin::File(input.clone()), bytes.clone())
-                    .map_err(|e| unusable(&e))?;
-                check_embedded(&p, info.channels).map_err(|e| format!("'{}': {e}", input.display()))?;
-                Some(p)
-            }
-            None => None,
-        };
-        let expand_grey = embedded.is_none() && info.channels == 1;
-        let channels = if expand_grey { 3 } else { info.channels };
-        let key = (info.icc.clone(), channels, info.bits);
-        let engine = match engine_of.get(&key) {
-            Some(&i) => i,
-            None => {
-                let fallback = if info.channels == 4 { &press } else { &screen };
-                let src = embedded.as_ref().unwrap_or(fallback);
-                let built =
-                    ProofEngine::new(src, channels, info.bits, &screen, &press, mapping).map_err(|e| {
-                        match (&embedded, &e) {
-                            (Some(p), IccError::Transform { name, .. }) if *name == p.name => unusable(&e),
-                            _ => Error::from(e),
-                        }
-                    })?;
-                engines.push(built);
-                engine_of.insert(key, engines.len() - 1);
-                engines.len() - 1
-            }
-        };
-        let (profile, source) = match &embedded {
-            Some(p) => (p.name.clone(), ProfileSource::Embedded),
-            None if info.channels == 4 => (press.name.clone(), ProfileSource::Assumed),
-            None => (screen.name.clone(), ProfileSource::Assumed),
-        };
-        let file_len = std::fs::metadata(input).map(|m| m.len()).unwrap_or(0);
-        let cost = working_bytes(&info, file_len, map.is_some());
-        jobs.push(Job {
-            input: input.clone(),
-            cost,
-            info,
-            out: out_path,
-            out_kind,
-            map,
-            engine,
-            expand_grey,
-            profile,
-            source,
-        });
-    }
-    let heat = if map_target.is_some() {
-        Some(HeatScale::new()?)
-    } else {
-        None
-    };
+    Ok(Targets { out, map })
+}
 
-    // The work, in parallel; outputs are staged, none is put in place yet.
+/// One input's job: its header read within the limits, its outputs claimed,
+/// its profile checked and its engine found or built.
+fn plan_job(
+    input: &Path,
+    targets: &Targets,
+    plan: &mut Plan,
+    engine_of: &mut HashMap<(Option<Vec<u8>>, usize, u8), usize>,
+) -> Result<Job, Error> {
+    let info = raster::probe_within(input, &plan.limits).map_err(with_limit_hint)?;
+    let (out_path, out_kind) = match &targets.out {
+        Target::Dir(d) => {
+            let ext = input.extension().and_then(|e| e.to_str()).unwrap_or("png").to_string();
+            (
+                d.join(format!("{}.proof.{ext}", stem(input))),
+                FileKind::from_extension(Path::new(&format!("x.{ext}"))).unwrap_or(info.kind),
+            )
+        }
+        Target::File(f) => (f.clone(), FileKind::from_extension(f).unwrap_or(info.kind)),
+    };
+    if out_kind == FileKind::Jpeg && (info.bits != 8 || info.has_alpha) {
+        return Err(format!(
+            "'{}': JPEG holds 8-bit RGB without alpha; this image is {}-bit{}: write PNG or TIFF",
+            out_path.display(),
+            info.bits,
+            if info.has_alpha { " with alpha" } else { "" }
+        )
+        .into());
+    }
+    plan.outputs.claim(&out_path)?;
+    let map = match &targets.map {
+        Some(Target::Dir(d)) => Some((
+            d.join(format!("{}.delta.png", stem(input))),
+            d.join(format!("{}.delta-legend.svg", stem(input))),
+        )),
+        Some(Target::File(f)) => Some((f.clone(), f.with_extension("legend.svg"))),
+        None => None,
+    };
+    if let Some((m, l)) = &map {
+        plan.outputs.claim(m)?;
+        plan.outputs.claim(l)?;
+    }
+    let unusable = |e: &IccError| -> Error {
+        format!("'{}': its embedded ICC profile cannot be used: {e}", input.display()).into()
+    };
+    let embedded = match &info.icc {
+        Some(bytes) => {
+            let name = format!("{} (embedded profile)", input.display());
+            let p = IccProfile::from_bytes(&name, Origin::File(input.to_path_buf()), bytes.clone())
+                .map_err(|e| unusable(&e))?;
+            check_embedded(&p, info.channels).map_err(|e| format!("'{}': {e}", input.display()))?;
+            Some(p)
+        }
+        None => None,
+    };
+    let expand_grey = embedded.is_none() && info.channels == 1;
+    let channels = if expand_grey { 3 } else { info.channels };
+    let key = (info.icc.clone(), channels, info.bits);
+    let engine = match engine_of.get(&key) {
+        Some(&i) => i,
+        None => {
+            let fallback = if info.channels == 4 { &plan.press } else { &plan.screen };
+            let src = embedded.as_ref().unwrap_or(fallback);
+            let built = ProofEngine::new(src, channels, info.bits, &plan.screen, &plan.press, plan.mapping).map_err(
+                |e| match (&embedded, &e) {
+                    (Some(p), IccError::Transform { name, .. }) if *name == p.name => unusable(&e),
+                    _ => Error::from(e),
+                },
+            )?;
+            plan.engines.push(built);
+            engine_of.insert(key, plan.engines.len() - 1);
+            plan.engines.len() - 1
+        }
+    };
+    let (profile, source) = match &embedded {
+        Some(p) => (p.name.clone(), ProfileSource::Embedded),
+        None if info.channels == 4 => (plan.press.name.clone(), ProfileSource::Assumed),
+        None => (plan.screen.name.clone(), ProfileSource::Assumed),
+    };
+    let file_len = std::fs::metadata(input).map(|m| m.len()).unwrap_or(0);
+    let cost = working_bytes(&info, file_len, map.is_some());
+    Ok(Job {
+        input: input.to_path_buf(),
+        cost,
+        info,
+        out: out_path,
+        out_kind,
+        map,
+        engine,
+        expand_grey,
+        profile,
+        source,
+    })
+}
+
+/// The work, in parallel: outputs are staged while images are proofed and
+/// put in place together only when every image succeeded.
+fn work(a: &ProofArgs, mut plan: Plan) -> Result<(Plan, Vec<ImageReport>), Error> {
     let bar = if a.quiet || a.json || !std::io::stderr().is_terminal() {
         indicatif::ProgressBar::hidden()
     } else {
-        indicatif::ProgressBar::new(jobs.len() as u64)
+        indicatif::ProgressBar::new(plan.jobs.len() as u64)
     };
-    let screen_icc = screen.bytes.clone();
+    let outputs = std::mem::replace(&mut plan.outputs, Outputs::new());
     let ctx = Work {
-        engines: &engines,
-        heat: heat.as_ref(),
-        screen_icc: &screen_icc,
+        engines: &plan.engines,
+        heat: plan.heat.as_ref(),
+        screen_icc: &plan.screen.bytes,
         tolerance: a.tolerance,
-        limits,
+        limits: plan.limits,
         outputs: Mutex::new(outputs),
     };
-    let images = proof_all(&jobs, &ctx, &bar);
+    let images = proof_all(&plan.jobs, &ctx, &bar);
     bar.finish_and_clear();
     let images = images?;
     ctx.outputs.into_inner().unwrap_or_else(|e| e.into_inner()).commit()?;
+    Ok((plan, images))
+}
 
-    let beyond = images.iter().any(|i| !i.within_tolerance);
+/// Notes on what the proofs can and cannot say about these inputs.
+fn notes(plan: &Plan) -> Vec<String> {
+    let jobs = &plan.jobs;
     let mut notes = Vec::new();
-    notes.extend(press.intent_note(mapping.intent, Direction::FromPcs));
+    notes.extend(plan.press.intent_note(plan.mapping.intent, Direction::FromPcs));
     if jobs.iter().any(|j| j.info.channels == 1) {
         notes.push("grey images are proofed to RGB: the press may not print grey neutral".to_string());
     }
@@ -414,10 +395,22 @@ pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if jobs.iter().any(|j| j.info.has_alpha) {
         notes.push("alpha is carried over unchanged; statistics count every pixel whatever its alpha".to_string());
     }
-    let r = ProofReport {
-        conditions: Conditions::new(&screen, &press, mapping, a.tolerance, GamutTest::RoundTrip, None, notes),
-        images,
-    };
+    notes
+}
+
+/// The report: table or JSON, and the outcome for `--strict`.
+fn write_report(a: &ProofArgs, plan: &Plan, images: Vec<ImageReport>, out: &mut dyn Write) -> Result<Outcome, Error> {
+    let beyond = images.iter().any(|i| !i.within_tolerance);
+    let conditions = Conditions::new(
+        &plan.screen,
+        &plan.press,
+        plan.mapping,
+        a.tolerance,
+        GamutTest::RoundTrip,
+        None,
+        notes(plan),
+    );
+    let r = ProofReport { conditions, images };
     if a.json {
         crate::report::write_json(out, &r)?;
     } else {
@@ -584,61 +577,4 @@ fn file_name(p: &Path) -> String {
     p.file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_default()
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-    use std::sync::mpsc;
-    use std::time::Duration;
-
-    #[test]
-    fn budget_holds_back_what_does_not_fit_and_lets_a_large_image_run_alone() {
-        let b = Budget::new(10);
-        let first = b.take(6);
-        let (tx, rx) = mpsc::channel();
-        std::thread::scope(|s| {
-            s.spawn(|| {
-                let _second = b.take(6);
-                tx.send(()).unwrap();
-            });
-            // 6 + 6 > 10: the second waits while the first is held.
-            assert!(rx.recv_timeout(Duration::from_millis(200)).is_err());
-            drop(first);
-            rx.recv_timeout(Duration::from_secs(10))
-                .expect("starts once the first is done");
-        });
-        // Larger than the whole budget, with nothing else in progress: runs.
-        let big = b.take(25);
-        assert_eq!(*b.used.lock().unwrap(), (25, 1));
-        drop(big);
-        assert_eq!(*b.used.lock().unwrap(), (0, 0));
-        // Small ones share it.
-        let (x, y) = (b.take(4), b.take(5));
-        assert_eq!(*b.used.lock().unwrap(), (9, 2));
-        drop((x, y));
-    }
-
-    #[test]
-    fn working_estimate_counts_the_layouts_that_cost_more() {
-        let info = |channels, bits, has_alpha, kind| RasterInfo {
-            kind,
-            width: 1000,
-            height: 1000,
-            channels,
-            bits,
-            has_alpha,
-            icc: None,
-        };
-        let rgb8 = working_bytes(&info(3, 8, false, FileKind::Png), 0, false);
-        // 8-bit RGB: the proof over the samples (3) plus its encoded file (3).
-        assert_eq!(rgb8, 6_000_000);
-        // A map adds its pixels, and its file while the proof is still held.
-        assert_eq!(working_bytes(&info(3, 8, false, FileKind::Png), 0, true), 9_000_000);
-        // 16 bits double it; alpha and the image crate's TIFF buffer add more.
-        assert_eq!(working_bytes(&info(3, 16, false, FileKind::Png), 0, false), 12_000_000);
-        assert!(working_bytes(&info(3, 8, true, FileKind::Png), 0, false) > rgb8);
-        // A JPEG's file is held whole while it decodes.
-        assert!(working_bytes(&info(3, 8, false, FileKind::Jpeg), 50_000_000, false) > 50_000_000);
-    }
 }

@@ -11,14 +11,14 @@
 use lcms2::{AllowCache, CIExyY, DisallowCache, Flags, GlobalContext, PixelFormat, Profile, Transform};
 
 use super::{IccError, IccProfile, RenderingIntent};
-use crate::color::{LabD50, D50};
+use crate::color::{LabD50, Xy, D50};
 
 /// A CIELAB v4 profile relative to D50: the PCS as a colour space.
 pub fn lab_d50_profile() -> Profile {
-    let s = D50.x + D50.y + D50.z;
+    let xy = D50.chromaticity().unwrap_or(Xy { x: 0.3457, y: 0.3585 });
     let white = CIExyY {
-        x: D50.x / s,
-        y: D50.y / s,
+        x: xy.x,
+        y: xy.y,
         Y: 1.0,
     };
     // Creating an identity Lab profile cannot fail for a valid white.

@@ -26,10 +26,7 @@ pub fn lab_to_xy(lab: [f64; 3]) -> Option<Xy> {
     if s.is_nan() || s <= 1e-6 || [xyz.x, xyz.y, xyz.z].iter().any(|&v| v < -0.02 * s) {
         return None;
     }
-    Some(Xy {
-        x: xyz.x / s,
-        y: xyz.y / s,
-    })
+    xyz.chromaticity()
 }
 
 /// Signed area of a closed polygon by the shoelace formula (positive when

@@ -4,7 +4,7 @@
 
 use std::sync::OnceLock;
 
-use crate::color::Xy;
+use crate::color::{Xy, Xyz};
 
 /// The CIE 1931 2° colour-matching functions, 380–780 nm every 5 nm
 /// (CIE 015:2018, Table 11.2), as shipped in `data/`.
@@ -62,10 +62,10 @@ pub fn cmf_table() -> Option<&'static [CmfRow]> {
     TABLE.get_or_init(|| parse_cmf(CMF_CSV)).as_deref().ok()
 }
 
-/// Chromaticity of a tristimulus triple; `None` when X + Y + Z ≤ 0.
+/// Chromaticity of a tristimulus triple ([`Xyz::chromaticity`]); `None`
+/// when X + Y + Z is not positive.
 pub fn xy_of(x: f64, y: f64, z: f64) -> Option<Xy> {
-    let s = x + y + z;
-    (s > 1e-15).then(|| Xy { x: x / s, y: y / s })
+    (x + y + z > 0.0).then(|| Xyz::new(x, y, z).chromaticity()).flatten()
 }
 
 /// The spectral locus: (wavelength nm, xy) of each monochromatic stimulus in

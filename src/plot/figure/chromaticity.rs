@@ -1,43 +1,102 @@
 //! The xy and u′v′ chromaticity diagrams: spectral locus with wavelength
 //! ticks, Planckian locus, white points, profile outlines and palette
-//! markers with arrows from screen to print.
+//! markers with arrows from screen to print. [`chromaticity`] draws them as
+//! a sequence of named layers, bottom to top.
 
 use super::*;
 
-pub(super) fn chromaticity(fig: &Figure) -> String {
-    let uv = fig.kind == PlotKind::Uv;
-    let map = |c: Xy| -> Option<[f64; 2]> {
-        if uv {
+/// The diagram's coordinates: the panel, and xy or u′v′.
+struct Diagram {
+    panel: Panel,
+    uv: bool,
+    /// The equal-energy point, the centre of the background fan.
+    white: [f64; 2],
+    step: [f64; 2],
+}
+
+impl Diagram {
+    fn new(uv: bool) -> Self {
+        let (xr, yr, step, scale) = if uv {
+            ([0.0, 0.65], [0.0, 0.65], [0.1, 0.1], 800.0)
+        } else {
+            ([0.0, 0.8], [0.0, 0.9], [0.1, 0.1], 600.0)
+        };
+        let panel = Panel {
+            x0: 80.0,
+            y0: 60.0,
+            w: (xr[1] - xr[0]) * scale,
+            h: (yr[1] - yr[0]) * scale,
+            xr,
+            yr,
+        };
+        let mut d = Diagram {
+            panel,
+            uv,
+            white: [0.3, 0.3],
+            step,
+        };
+        d.white = d
+            .map(Xy {
+                x: 1.0 / 3.0,
+                y: 1.0 / 3.0,
+            })
+            .unwrap_or([0.3, 0.3]);
+        d
+    }
+
+    /// Diagram coordinates of a chromaticity.
+    fn map(&self, c: Xy) -> Option<[f64; 2]> {
+        if self.uv {
             uv_prime(c)
         } else {
             Some([c.x, c.y])
         }
-    };
-    let (xr, yr, step, scale) = if uv {
-        ([0.0, 0.65], [0.0, 0.65], [0.1, 0.1], 800.0)
-    } else {
-        ([0.0, 0.8], [0.0, 0.9], [0.1, 0.1], 600.0)
-    };
-    let p = Panel {
-        x0: 80.0,
-        y0: 60.0,
-        w: (xr[1] - xr[0]) * scale,
-        h: (yr[1] - yr[0]) * scale,
-        xr,
-        yr,
-    };
+    }
+
+    /// The spectral locus in diagram coordinates, with wavelengths.
+    fn locus(&self) -> Vec<(f64, [f64; 2])> {
+        spectral_locus()
+            .into_iter()
+            .filter_map(|(nm, c)| self.map(c).map(|q| (nm, q)))
+            .collect()
+    }
+}
+
+pub(super) fn chromaticity(fig: &Figure) -> String {
+    let d = Diagram::new(fig.kind == PlotKind::Uv);
+    let p = d.panel;
     let legend_x = p.x0 + p.w + 30.0;
     let height = p.y0 + p.h + 110.0;
     let mut svg = page(legend_x, height, &[(s("plot-area"), p)]);
-    let locus: Vec<(f64, [f64; 2])> = spectral_locus()
-        .into_iter()
-        .filter_map(|(nm, c)| map(c).map(|q| (nm, q)))
-        .collect();
-    let white = map(Xy {
-        x: 1.0 / 3.0,
-        y: 1.0 / 3.0,
-    })
-    .unwrap_or([0.3, 0.3]);
+    let locus = d.locus();
+    background(&mut svg, &d, &locus);
+    axes(&mut svg, &p, d.step, axis_labels(d.uv), "main");
+    spectral_locus_lines(&mut svg, &d, &locus);
+    wavelength_ticks(&mut svg, &d);
+    planckian_locus(&mut svg, &d);
+    profile_outlines(&mut svg, &d, fig);
+    white_points(&mut svg, &d);
+    collapsed_pairs(&mut svg, &d, fig);
+    palette(&mut svg, &d, fig);
+    legend(&mut svg, fig, legend_x, p.y0 + 10.0);
+    title_and_captions(&mut svg, &d, fig);
+    svg.finish()
+}
+
+fn axis_labels(uv: bool) -> [&'static str; 2] {
+    if uv {
+        ["u′ (CIE 1976 UCS, dimensionless)", "v′ (CIE 1976 UCS, dimensionless)"]
+    } else {
+        [
+            "x (CIE 1931 chromaticity, dimensionless)",
+            "y (CIE 1931 chromaticity, dimensionless)",
+        ]
+    }
+}
+
+/// A fan of pale tints from the equal-energy point to the locus.
+fn background(svg: &mut Svg, d: &Diagram, locus: &[(f64, [f64; 2])]) {
+    let p = &d.panel;
     // Background: a fan of pale tints from the equal-energy point to the locus.
     svg.open("g", &[("id", s("background")), ("clip-path", s("url(#plot-area)"))]);
     let n = locus.len();
@@ -62,7 +121,7 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
             }
         };
         let tint = tint_of(hint);
-        let d = path_data(&p.pxs(&[white, a, b]), true);
+        let d = path_data(&p.pxs(&[d.white, a, b]), true);
         svg.empty(
             "path",
             &[
@@ -74,17 +133,11 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
         );
     }
     svg.close();
-    let xlabel = if uv {
-        "u′ (CIE 1976 UCS, dimensionless)"
-    } else {
-        "x (CIE 1931 chromaticity, dimensionless)"
-    };
-    let ylabel = if uv {
-        "v′ (CIE 1976 UCS, dimensionless)"
-    } else {
-        "y (CIE 1931 chromaticity, dimensionless)"
-    };
-    axes(&mut svg, &p, step, [xlabel, ylabel], "main");
+}
+
+/// The spectral locus and the purple line.
+fn spectral_locus_lines(svg: &mut Svg, d: &Diagram, locus: &[(f64, [f64; 2])]) {
+    let p = &d.panel;
     // Spectral locus and purple line.
     let pts: Vec<[f64; 2]> = locus.iter().map(|l| l.1).collect();
     svg.empty(
@@ -114,6 +167,11 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
             ],
         );
     }
+}
+
+/// Ticks and labels at [`LABELLED_NM`] on the locus, pointing away from white.
+fn wavelength_ticks(svg: &mut Svg, d: &Diagram) {
+    let p = &d.panel;
     svg.open(
         "g",
         &[
@@ -122,9 +180,11 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
             ("fill", s("#222222")),
         ],
     );
-    let wc = p.px(white);
+    let wc = p.px(d.white);
     for nm in LABELLED_NM {
-        let Some(c) = locus_at(nm).and_then(map) else { continue };
+        let Some(c) = locus_at(nm).and_then(|c| d.map(c)) else {
+            continue;
+        };
         let q = p.px(c);
         let d = [q[0] - wc[0], q[1] - wc[1]];
         let len = d[0].hypot(d[1]).max(1e-9);
@@ -154,11 +214,19 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
         svg.close();
     }
     svg.close();
+}
+
+/// The Planckian locus with marks at [`MARKED_KELVIN`].
+fn planckian_locus(svg: &mut Svg, d: &Diagram) {
+    let p = &d.panel;
     // Planckian locus, 1667–25000 K on a logarithmic spacing of temperatures.
     let temps: Vec<f64> = (0..=60)
         .map(|k| 1667.0 * (25000.0f64 / 1667.0).powf(k as f64 / 60.0))
         .collect();
-    let planck: Vec<[f64; 2]> = temps.iter().filter_map(|&t| planckian_xy(t).and_then(map)).collect();
+    let planck: Vec<[f64; 2]> = temps
+        .iter()
+        .filter_map(|&t| planckian_xy(t).and_then(|c| d.map(c)))
+        .collect();
     svg.open(
         "g",
         &[
@@ -178,7 +246,7 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
         ],
     );
     for t in MARKED_KELVIN {
-        let Some(c) = planckian_xy(t).and_then(map) else {
+        let Some(c) = planckian_xy(t).and_then(|c| d.map(c)) else {
             continue;
         };
         let q = p.px(c);
@@ -205,10 +273,15 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
         svg.close();
     }
     svg.close();
+}
+
+/// The outline of each profile's gamut.
+fn profile_outlines(svg: &mut Svg, d: &Diagram, fig: &Figure) {
+    let p = &d.panel;
     // Profile outlines.
     svg.open("g", &[("id", s("outlines")), ("clip-path", s("url(#plot-area)"))]);
     for (k, l) in fig.layers.iter().enumerate() {
-        let pts: Vec<[f64; 2]> = l.outline.iter().filter_map(|&c| map(c)).collect();
+        let pts: Vec<[f64; 2]> = l.outline.iter().filter_map(|&c| d.map(c)).collect();
         let mut a = vec![
             ("class", s("profile-outline")),
             ("data-profile", l.name.clone()),
@@ -218,6 +291,11 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
         svg.empty("path", &a);
     }
     svg.close();
+}
+
+/// D50 and D65.
+fn white_points(svg: &mut Svg, d: &Diagram) {
+    let p = &d.panel;
     // White points.
     svg.open(
         "g",
@@ -228,7 +306,7 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
         ],
     );
     for (id, c, label, dx) in [("white-d50", D50_XY, "D50", -6.0), ("white-d65", D65_XY, "D65", -6.0)] {
-        let Some(q) = map(c).map(|q| p.px(q)) else { continue };
+        let Some(q) = d.map(c).map(|q| p.px(q)) else { continue };
         svg.open("g", &[("id", s(id)), ("class", s("white-point"))]);
         svg.empty(
             "path",
@@ -264,6 +342,11 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
         svg.close();
     }
     svg.close();
+}
+
+/// Pairs that collapse in print, joined where they print.
+fn collapsed_pairs(svg: &mut Svg, d: &Diagram, fig: &Figure) {
+    let p = &d.panel;
     // Pairs that collapse in print, joined where they print (drawn under
     // the markers): the separation problems of `check --svg`.
     if !fig.collapsed.is_empty() {
@@ -271,7 +354,7 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
             sw.printed_lab
                 .or(Some(sw.screen_lab))
                 .and_then(lab_to_xy)
-                .and_then(map)
+                .and_then(|c| d.map(c))
                 .map(|q| p.px(q))
         };
         svg.open("g", &[("id", s("collapsed-pairs"))]);
@@ -301,18 +384,31 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
         }
         svg.close();
     }
+}
+
+/// Each palette colour with its arrow from screen to print.
+fn palette(svg: &mut Svg, d: &Diagram, fig: &Figure) {
+    let p = &d.panel;
     // Palette.
     svg.open("g", &[("id", s("palette"))]);
     for sw in &fig.swatches {
-        let Some(at) = lab_to_xy(sw.screen_lab).and_then(map).map(|q| p.px(q)) else {
+        let Some(at) = lab_to_xy(sw.screen_lab).and_then(|c| d.map(c)).map(|q| p.px(q)) else {
             continue;
         };
-        let to = sw.printed_lab.and_then(lab_to_xy).and_then(map).map(|q| p.px(q));
-        swatch(&mut svg, sw, at, to);
+        let to = sw
+            .printed_lab
+            .and_then(lab_to_xy)
+            .and_then(|c| d.map(c))
+            .map(|q| p.px(q));
+        swatch(svg, sw, at, to);
     }
     svg.close();
-    legend(&mut svg, fig, legend_x, p.y0 + 10.0);
-    let title = if uv {
+}
+
+/// Title and the caption lines.
+fn title_and_captions(svg: &mut Svg, d: &Diagram, fig: &Figure) {
+    let p = &d.panel;
+    let title = if d.uv {
         "CIE 1976 u′v′ chromaticity diagram"
     } else {
         "CIE 1931 xy chromaticity diagram"
@@ -322,12 +418,11 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
         mapping_line(fig),
         "The background tints only hint at hue; they are not the colours of those chromaticities.".to_string(),
     ];
-    if uv {
+    if d.uv {
         caption.push(
             "u′v′ spaces colours more evenly than xy: equal distances are closer to equal visible differences."
                 .to_string(),
         );
     }
-    title_and_caption(&mut svg, title, &caption, p.x0, p.y0 + p.h + 56.0);
-    svg.finish()
+    title_and_caption(svg, title, &caption, p.x0, p.y0 + p.h + 56.0);
 }

@@ -111,9 +111,9 @@ fn tint_of(c: Xy) -> String {
             y: 1.0 / 3.0,
         });
     }
-    let y = 1.0;
-    let xyz = [c.x * y / c.y, y, (1.0 - c.x - c.y) * y / c.y];
-    let lab = LabD50::from_xyz(crate::color::Xyz::new(xyz[0], xyz[1], xyz[2]));
+    // Equal-energy XYZ as the fallback, though y > 0 is checked above.
+    let xyz = crate::color::Xyz::from_xy(c, 1.0).unwrap_or(crate::color::Xyz::new(1.0, 1.0, 1.0));
+    let lab = LabD50::from_xyz(xyz);
     let rgb = lab_d50_to_srgb_unclamped(lab);
     let m = rgb.iter().cloned().fold(f64::MIN, f64::max).max(1e-6);
     let rgb = clamp_unit(rgb.map(|v| v / m));
