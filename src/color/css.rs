@@ -482,11 +482,24 @@ fn check_alpha(f: &str, args: &Args) -> Result<(), String> {
 }
 
 impl Func {
+    /// Resolves a parsed call: the colour space of `color()`, the argument
+    /// count, each argument against its slot, alpha, then the colour.
     fn resolve(self, f: &str, mut args: Args) -> Result<ColorInput, String> {
-        const N: bool = true;
-        const X: bool = false;
-        // Color space comes first in color().
-        let space = if let Func::Color = self {
+        let space = self.take_space(&mut args)?;
+        let slots = self.slots(args.legacy);
+        self.check_arity(f, slots, &mut args)?;
+        let mut v = Vec::with_capacity(slots.len());
+        for (i, (s, t)) in slots.iter().zip(&args.comps).enumerate() {
+            v.push(resolve_comp(f, i, s, t, args.legacy)?);
+        }
+        check_alpha(f, &args)?;
+        self.color(f, &v, args.legacy, space)
+    }
+
+    /// The colour space that comes first in `color()`, taken off the
+    /// arguments; `None` for every other function.
+    fn take_space(self, args: &mut Args) -> Result<Option<CssRgbSpace>, String> {
+        if let Func::Color = self {
             if args.legacy {
                 return Err("color() takes space-separated values, no commas".into());
             }
@@ -500,45 +513,69 @@ impl Func {
                     first.text
                 ));
             };
-            Some(CssRgbSpace::from_css_name(name).ok_or_else(|| {
+            CssRgbSpace::from_css_name(name).map(Some).ok_or_else(|| {
                 format!(
                     "color(): colour space \"{}\" is not supported; expected srgb, display-p3 or rec2020",
                     first.text
                 )
-            })?)
+            })
         } else {
-            None
-        };
+            Ok(None)
+        }
+    }
 
-        let slots: &[Slot] = match self {
-            Func::Rgb => &[slot("red", N, N, X), slot("green", N, N, X), slot("blue", N, N, X)],
-            Func::Hsl if args.legacy => &[
-                slot("hue", X, X, N),
-                slot("saturation", X, N, X),
-                slot("lightness", X, N, X),
-            ],
-            Func::Hsl => &[
-                slot("hue", X, X, N),
-                slot("saturation", N, N, X),
-                slot("lightness", N, N, X),
-            ],
-            Func::Lab | Func::Oklab => &[slot("L", N, N, X), slot("a", N, N, X), slot("b", N, N, X)],
-            Func::Lch | Func::Oklch => &[slot("L", N, N, X), slot("C", N, N, X), slot("h", X, X, N)],
-            Func::Color => &[slot("r", N, N, X), slot("g", N, N, X), slot("b", N, N, X)],
-            Func::DeviceCmyk if args.legacy => &[
-                slot("cyan", N, X, X),
-                slot("magenta", N, X, X),
-                slot("yellow", N, X, X),
-                slot("black", N, X, X),
-            ],
-            Func::DeviceCmyk => &[
-                slot("cyan", N, N, X),
-                slot("magenta", N, N, X),
-                slot("yellow", N, N, X),
-                slot("black", N, N, X),
-            ],
-        };
+    /// What each argument may be.
+    fn slots(self, legacy: bool) -> &'static [Slot] {
+        const N: bool = true;
+        const X: bool = false;
+        match self {
+            Func::Rgb => const { &[slot("red", N, N, X), slot("green", N, N, X), slot("blue", N, N, X)] },
+            Func::Hsl if legacy => {
+                const {
+                    &[
+                        slot("hue", X, X, N),
+                        slot("saturation", X, N, X),
+                        slot("lightness", X, N, X),
+                    ]
+                }
+            }
+            Func::Hsl => {
+                const {
+                    &[
+                        slot("hue", X, X, N),
+                        slot("saturation", N, N, X),
+                        slot("lightness", N, N, X),
+                    ]
+                }
+            }
+            Func::Lab | Func::Oklab => const { &[slot("L", N, N, X), slot("a", N, N, X), slot("b", N, N, X)] },
+            Func::Lch | Func::Oklch => const { &[slot("L", N, N, X), slot("C", N, N, X), slot("h", X, X, N)] },
+            Func::Color => const { &[slot("r", N, N, X), slot("g", N, N, X), slot("b", N, N, X)] },
+            Func::DeviceCmyk if legacy => {
+                const {
+                    &[
+                        slot("cyan", N, X, X),
+                        slot("magenta", N, X, X),
+                        slot("yellow", N, X, X),
+                        slot("black", N, X, X),
+                    ]
+                }
+            }
+            Func::DeviceCmyk => {
+                const {
+                    &[
+                        slot("cyan", N, N, X),
+                        slot("magenta", N, N, X),
+                        slot("yellow", N, N, X),
+                        slot("black", N, N, X),
+                    ]
+                }
+            }
+        }
+    }
 
+    /// The comma syntax where it is allowed, alpha split off, and the count.
+    fn check_arity(self, f: &str, slots: &[Slot], args: &mut Args) -> Result<(), String> {
         let legacy_ok = matches!(self, Func::Rgb | Func::Hsl | Func::DeviceCmyk);
         if args.legacy && !legacy_ok {
             return Err(format!("{f}() takes space-separated values, no commas"));
@@ -556,16 +593,15 @@ impl Func {
                 args.comps.len()
             ));
         }
-        let mut v = Vec::with_capacity(slots.len());
-        for (i, (s, t)) in slots.iter().zip(&args.comps).enumerate() {
-            v.push(resolve_comp(f, i, s, t, args.legacy)?);
-        }
-        check_alpha(f, &args)?;
+        Ok(())
+    }
 
+    /// The colour of resolved arguments `v`.
+    fn color(self, f: &str, v: &[Val], legacy: bool, space: Option<CssRgbSpace>) -> Result<ColorInput, String> {
         Ok(match self {
             Func::Rgb => {
                 // Legacy rgb() may not mix numbers and percentages.
-                if args.legacy {
+                if legacy {
                     let pct = v.iter().filter(|x| matches!(x, Val::Pct(_))).count();
                     if pct != 0 && pct != 3 {
                         return Err(format!(
@@ -619,7 +655,6 @@ impl Func {
         })
     }
 }
-
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -4,8 +4,9 @@
 use std::io::{self, Write};
 
 use super::table::{Align, Table, Tone};
+use crate::swatch::order::Order;
 use crate::swatch::separation::FlaggedPair;
-use crate::swatch::survival::{Survival, Verdict};
+use crate::swatch::survival::{CvdReport, Survival, Verdict};
 
 use super::fixed as f;
 
@@ -39,6 +40,18 @@ fn pair_table(w: &mut dyn Write, pairs: &[FlaggedPair], floor: f64, color: bool)
 
 /// The section after the per-colour table.
 pub fn render_survival(w: &mut dyn Write, s: &Survival, names: &[String], color: bool) -> io::Result<()> {
+    render_separation(w, s, names, color)?;
+    if let Some(o) = &s.order {
+        render_order(w, o, color)?;
+    }
+    if let Some(c) = &s.cvd {
+        render_cvd(w, c, s.separation.min_separation, color)?;
+    }
+    render_palette_verdict(w, s)
+}
+
+/// The separation section: collapsed and halved pairs, closest pairs.
+fn render_separation(w: &mut dyn Write, s: &Survival, names: &[String], color: bool) -> io::Result<()> {
     let sep = &s.separation;
     let name = |i: usize| names.get(i.wrapping_sub(1)).map_or("?", |n| n.as_str());
     let pair_words = |p: Option<[usize; 2]>| p.map_or(String::new(), |[a, b]| format!(" ({} / {})", name(a), name(b)));
@@ -77,99 +90,110 @@ pub fn render_survival(w: &mut dyn Write, s: &Survival, names: &[String], color:
         f(sep.min_print, 2),
         pair_words(sep.min_print_pair)
     )?;
-    if let Some(o) = &s.order {
-        writeln!(w)?;
-        writeln!(
-            w,
-            "order       lightness along {}; smallest step ΔE00 {}",
-            o.arms
-                .iter()
-                .map(|a| format!(
-                    "{} arm {} ({})",
-                    a.arm,
-                    a.direction,
-                    a.entries.iter().map(|e| e.to_string()).collect::<Vec<_>>().join("→")
-                ))
-                .collect::<Vec<_>>()
-                .join(", "),
-            f(o.min_step, 1)
-        )?;
-        writeln!(
-            w,
-            "  monotonic on screen: {}, in print: {}; unevenness (largest / smallest step) screen {}, print {}",
-            if o.monotonic_screen { "yes" } else { "NO" },
-            if o.monotonic_print { "yes" } else { "NO" },
-            o.unevenness_screen.map_or("-".to_string(), |v| f(v, 2)),
-            o.unevenness_print.map_or("-".to_string(), |v| f(v, 2)),
-        )?;
-        let mut t = Table::new(&[
-            ("arm", Align::Left),
-            ("step", Align::Left),
-            ("screen ΔE00", Align::Right),
-            ("print ΔE00", Align::Right),
-            ("screen ΔL*", Align::Right),
-            ("print ΔL*", Align::Right),
-            ("problem", Align::Left),
+    Ok(())
+}
+
+/// The lightness order section of a sequential or diverging scheme.
+fn render_order(w: &mut dyn Write, o: &Order, color: bool) -> io::Result<()> {
+    writeln!(w)?;
+    writeln!(
+        w,
+        "order       lightness along {}; smallest step ΔE00 {}",
+        o.arms
+            .iter()
+            .map(|a| format!(
+                "{} arm {} ({})",
+                a.arm,
+                a.direction,
+                a.entries.iter().map(|e| e.to_string()).collect::<Vec<_>>().join("→")
+            ))
+            .collect::<Vec<_>>()
+            .join(", "),
+        f(o.min_step, 1)
+    )?;
+    writeln!(
+        w,
+        "  monotonic on screen: {}, in print: {}; unevenness (largest / smallest step) screen {}, print {}",
+        if o.monotonic_screen { "yes" } else { "NO" },
+        if o.monotonic_print { "yes" } else { "NO" },
+        o.unevenness_screen.map_or("-".to_string(), |v| f(v, 2)),
+        o.unevenness_print.map_or("-".to_string(), |v| f(v, 2)),
+    )?;
+    let mut t = Table::new(&[
+        ("arm", Align::Left),
+        ("step", Align::Left),
+        ("screen ΔE00", Align::Right),
+        ("print ΔE00", Align::Right),
+        ("screen ΔL*", Align::Right),
+        ("print ΔL*", Align::Right),
+        ("problem", Align::Left),
+    ]);
+    for st in &o.steps {
+        let mut p = Vec::new();
+        if st.reverses_screen {
+            p.push("reverses on screen");
+        }
+        if st.reverses_print {
+            p.push("reverses in print");
+        }
+        if st.too_small_screen {
+            p.push("small on screen");
+        }
+        if st.too_small_print {
+            p.push("small in print");
+        }
+        t.row(vec![
+            (st.arm.to_string(), Tone::Plain),
+            (format!("{}→{}", st.from, st.to), Tone::Plain),
+            (f(st.screen, 2), Tone::Plain),
+            (f(st.print, 2), if st.too_small_print { Tone::Bad } else { Tone::Plain }),
+            (f(st.screen_dl, 2), Tone::Plain),
+            (
+                f(st.print_dl, 2),
+                if st.reverses_print { Tone::Bad } else { Tone::Plain },
+            ),
+            (p.join(", "), Tone::Bad),
         ]);
-        for st in &o.steps {
-            let mut p = Vec::new();
-            if st.reverses_screen {
-                p.push("reverses on screen");
-            }
-            if st.reverses_print {
-                p.push("reverses in print");
-            }
-            if st.too_small_screen {
-                p.push("small on screen");
-            }
-            if st.too_small_print {
-                p.push("small in print");
-            }
-            t.row(vec![
-                (st.arm.to_string(), Tone::Plain),
-                (format!("{}→{}", st.from, st.to), Tone::Plain),
-                (f(st.screen, 2), Tone::Plain),
-                (f(st.print, 2), if st.too_small_print { Tone::Bad } else { Tone::Plain }),
-                (f(st.screen_dl, 2), Tone::Plain),
-                (
-                    f(st.print_dl, 2),
-                    if st.reverses_print { Tone::Bad } else { Tone::Plain },
-                ),
-                (p.join(", "), Tone::Bad),
-            ]);
-        }
-        t.write(w, color)?;
-        if let Some(sym) = &o.symmetry {
-            writeln!(
-                w,
-                "  symmetry: matching printed steps differ by at most ΔE00 {}; arm totals low {} / high {}",
-                f(sym.max_difference, 2),
-                f(sym.low_total, 2),
-                f(sym.high_total, 2)
-            )?;
-        }
     }
-    if let Some(c) = &s.cvd {
-        writeln!(w)?;
+    t.write(w, color)?;
+    if let Some(sym) = &o.symmetry {
         writeln!(
             w,
-            "colour-vision deficiency  printed colours simulated (Machado, Oliveira & Fernandes 2009, in linear sRGB)"
+            "  symmetry: matching printed steps differ by at most ΔE00 {}; arm totals low {} / high {}",
+            f(sym.max_difference, 2),
+            f(sym.low_total, 2),
+            f(sym.high_total, 2)
         )?;
-        for (d, r) in c.iter() {
-            writeln!(
-                w,
-                "  {d} (severity {}): closest pair ΔE00 {} on screen, {} in print; {} pair{} flagged",
-                f(r.severity, 2),
-                f(r.min_screen, 2),
-                f(r.min_print, 2),
-                r.flagged.len(),
-                if r.flagged.len() == 1 { "" } else { "s" }
-            )?;
-            if !r.flagged.is_empty() {
-                pair_table(w, &r.flagged, sep.min_separation, color)?;
-            }
+    }
+    Ok(())
+}
+
+/// The colour-vision deficiency section.
+fn render_cvd(w: &mut dyn Write, c: &CvdReport, min_separation: f64, color: bool) -> io::Result<()> {
+    writeln!(w)?;
+    writeln!(
+        w,
+        "colour-vision deficiency  printed colours simulated (Machado, Oliveira & Fernandes 2009, in linear sRGB)"
+    )?;
+    for (d, r) in c.iter() {
+        writeln!(
+            w,
+            "  {d} (severity {}): closest pair ΔE00 {} on screen, {} in print; {} pair{} flagged",
+            f(r.severity, 2),
+            f(r.min_screen, 2),
+            f(r.min_print, 2),
+            r.flagged.len(),
+            if r.flagged.len() == 1 { "" } else { "s" }
+        )?;
+        if !r.flagged.is_empty() {
+            pair_table(w, &r.flagged, min_separation, color)?;
         }
     }
+    Ok(())
+}
+
+/// The last line of the palette checks, in words.
+fn render_palette_verdict(w: &mut dyn Write, s: &Survival) -> io::Result<()> {
     writeln!(w)?;
     if s.passes {
         let (what, verb) = if s.order.is_some() {

@@ -8,7 +8,7 @@ use crate::precision::{round, round_all};
 use rayon::prelude::*;
 use serde::Serialize;
 
-use super::Palette;
+use super::{Entry, Palette};
 use crate::color::css::ColorInput;
 use crate::color::delta::delta_e00;
 use crate::color::LabD50;
@@ -197,9 +197,60 @@ pub fn check_against(
     press_gamut: Option<&crate::gamut::Gamut>,
 ) -> Result<CheckReport, CheckError> {
     let t = PressTransforms::new(screen, press, opts.mapping)?;
-    let n = palette.entries.len();
+    let c = convert(palette, &t);
+    let over: Vec<bool> = c
+        .cmyk
+        .iter()
+        .map(|v| {
+            opts.ink_limit
+                .is_some_and(|l| over_ink_limit(v.iter().sum(), l.percent))
+        })
+        .collect();
+    let judged = press_gamut.map(|g| judge_all(palette, &c.screen_lab, &over, g));
+    let entries = palette
+        .entries
+        .iter()
+        .enumerate()
+        .map(|(i, e)| checked_entry(palette, i, e, &c, over[i], judged.as_deref(), opts.tolerance))
+        .collect::<Result<Vec<_>, _>>()?;
+    let gamut_test = if press_gamut.is_some() {
+        GamutTest::Boundary
+    } else {
+        GamutTest::RoundTrip
+    };
+    let boundary_ink = press_gamut.and_then(|g| g.ink_limit).map(|l| l.percent);
+    let notes = notes(screen, press, opts.mapping);
+    Ok(CheckReport {
+        palette: palette.source.clone(),
+        conditions: Conditions::new(
+            screen,
+            press,
+            opts.mapping,
+            opts.tolerance,
+            gamut_test,
+            boundary_ink,
+            notes,
+        ),
+        ink_limit: opts.ink_limit.map(CheckInkLimit::from),
+        summary: summarise(&entries),
+        entries,
+    })
+}
 
-    // Batch by input kind so each transform runs once over a contiguous slice.
+/// Every entry's colours through the press, unrounded.
+struct Converted {
+    /// The colour as the screen shows it; for a press colour, its relative
+    /// colorimetric printed CIELAB (the gamut's own frame).
+    screen_lab: Vec<LabD50>,
+    cmyk: Vec<[f64; 4]>,
+    printed: Vec<LabD50>,
+    round_trip: Vec<LabD50>,
+}
+
+/// Converts every entry, batched by input kind so each transform runs once
+/// over a contiguous slice.
+fn convert(palette: &Palette, t: &PressTransforms) -> Converted {
+    let n = palette.entries.len();
     let mut screen_lab = vec![LabD50::new(0.0, 0.0, 0.0); n];
     let mut cmyk = vec![[0.0; 4]; n];
     let (mut rgb_idx, mut rgb) = (Vec::new(), Vec::new());
@@ -235,101 +286,92 @@ pub fn check_against(
     }
     let printed = t.printed_lab(&cmyk);
     let round_trip = t.round_trip(&screen_lab);
-    let over: Vec<bool> = cmyk
-        .iter()
-        .map(|c| {
-            opts.ink_limit
-                .is_some_and(|l| over_ink_limit(c.iter().sum(), l.percent))
-        })
-        .collect();
-    // A press colour is printable as given unless it needs more ink than the
-    // press allows.
-    let press_printable = |i: usize| !(matches!(palette.entries[i].color, ColorInput::DeviceCmyk(_)) && over[i]);
+    Converted {
+        screen_lab,
+        cmyk,
+        printed,
+        round_trip,
+    }
+}
 
-    // The boundary test and the distance to the gamut, in parallel: the
-    // nearest-point search dominates a check of many out-of-gamut colours.
-    // A press colour over the ink limit is measured by its relative
-    // colorimetric printed CIELAB (held in `screen_lab`), the gamut's own
-    // frame.
-    let judged: Option<Vec<(bool, f64)>> = press_gamut.map(|g| {
-        palette
-            .entries
-            .par_iter()
-            .zip(&screen_lab)
-            .enumerate()
-            .map(|(i, (e, &l))| match e.color {
-                ColorInput::DeviceCmyk(_) if press_printable(i) => (true, 0.0),
-                _ => g.judge(l),
-            })
-            .collect()
-    });
-    let mut entries = Vec::with_capacity(n);
-    for (i, e) in palette.entries.iter().enumerate() {
-        let de = delta_e00(screen_lab[i], printed[i]);
-        let rt = match e.color {
-            // A press colour needs no trip through the press's Lab → CMYK
-            // table; whether it can print is the ink limit's question.
-            ColorInput::DeviceCmyk(_) => 0.0,
-            _ => delta_e00(screen_lab[i], round_trip[i]),
-        };
-        let (in_gamut, outside_by) = match &judged {
-            Some(j) => (j[i].0 && press_printable(i), Some(j[i].1)),
-            None => (rt <= NOTICEABLE_DE00 && press_printable(i), None),
-        };
-        let finite = |v: &[f64]| v.iter().all(|x| x.is_finite());
-        let not_finite = [
-            (finite(&screen_lab[i].to_array()), "screen CIELAB"),
-            (finite(&cmyk[i]), "press CMYK"),
-            (finite(&printed[i].to_array()) && de.is_finite(), "printed CIELAB"),
-            (rt.is_finite(), "round trip"),
-            (outside_by.is_none_or(f64::is_finite), "distance to the press gamut"),
-        ]
-        .into_iter()
-        .find(|(ok, _)| !ok);
-        if let Some((_, what)) = not_finite {
-            return Err(CheckError::NotFinite {
-                file: palette.source.clone(),
-                line: e.line,
-                input: e.input.clone(),
-                what,
-            });
-        }
-        let outside_by = outside_by.map(|d| round(d, 2));
-        entries.push(CheckedEntry {
-            name: e.name.clone(),
-            input: e.input.clone(),
+/// A press colour is printable as given unless it needs more ink than the
+/// press allows; any other colour is judged by the gamut test.
+fn press_printable(e: &Entry, over: bool) -> bool {
+    !(matches!(e.color, ColorInput::DeviceCmyk(_)) && over)
+}
+
+/// The boundary test and the distance to the gamut, in parallel: the
+/// nearest-point search dominates a check of many out-of-gamut colours. A
+/// press colour over the ink limit is measured by its relative colorimetric
+/// printed CIELAB (held in `screen_lab`), the gamut's own frame.
+fn judge_all(palette: &Palette, screen_lab: &[LabD50], over: &[bool], g: &crate::gamut::Gamut) -> Vec<(bool, f64)> {
+    palette
+        .entries
+        .par_iter()
+        .zip(screen_lab)
+        .zip(over)
+        .map(|((e, &l), &over)| match e.color {
+            ColorInput::DeviceCmyk(_) if press_printable(e, over) => (true, 0.0),
+            _ => g.judge(l),
+        })
+        .collect()
+}
+
+/// Entry `i`'s row: the gamut verdict, its numbers rounded, or an error when
+/// a conversion gave no finite number.
+fn checked_entry(
+    palette: &Palette,
+    i: usize,
+    e: &Entry,
+    c: &Converted,
+    over: bool,
+    judged: Option<&[(bool, f64)]>,
+    tolerance: f64,
+) -> Result<CheckedEntry, CheckError> {
+    let (screen_lab, cmyk, printed) = (c.screen_lab[i], c.cmyk[i], c.printed[i]);
+    let de = delta_e00(screen_lab, printed);
+    let rt = match e.color {
+        // A press colour needs no trip through the press's Lab → CMYK
+        // table; whether it can print is the ink limit's question.
+        ColorInput::DeviceCmyk(_) => 0.0,
+        _ => delta_e00(screen_lab, c.round_trip[i]),
+    };
+    let (in_gamut, outside_by) = match judged {
+        Some(j) => (j[i].0 && press_printable(e, over), Some(j[i].1)),
+        None => (rt <= NOTICEABLE_DE00 && press_printable(e, over), None),
+    };
+    let finite = |v: &[f64]| v.iter().all(|x| x.is_finite());
+    let not_finite = [
+        (finite(&screen_lab.to_array()), "screen CIELAB"),
+        (finite(&cmyk), "press CMYK"),
+        (finite(&printed.to_array()) && de.is_finite(), "printed CIELAB"),
+        (rt.is_finite(), "round trip"),
+        (outside_by.is_none_or(f64::is_finite), "distance to the press gamut"),
+    ]
+    .into_iter()
+    .find(|(ok, _)| !ok);
+    if let Some((_, what)) = not_finite {
+        return Err(CheckError::NotFinite {
+            file: palette.source.clone(),
             line: e.line,
-            screen_lab: round_all(screen_lab[i].to_array(), 2),
-            press_cmyk: round_all(cmyk[i], 1),
-            ink_total: round(cmyk[i].iter().sum(), 1),
-            over_ink_limit: over[i],
-            printed_lab: round_all(printed[i].to_array(), 2),
-            delta_e00: round(de, 2),
-            in_gamut,
-            round_trip_delta_e00: round(rt, 2),
-            outside_by,
-            within_tolerance: de <= opts.tolerance,
+            input: e.input.clone(),
+            what,
         });
     }
-    let summary = summarise(&entries);
-    Ok(CheckReport {
-        palette: palette.source.clone(),
-        conditions: Conditions::new(
-            screen,
-            press,
-            opts.mapping,
-            opts.tolerance,
-            if press_gamut.is_some() {
-                GamutTest::Boundary
-            } else {
-                GamutTest::RoundTrip
-            },
-            press_gamut.and_then(|g| g.ink_limit).map(|l| l.percent),
-            notes(screen, press, opts.mapping),
-        ),
-        ink_limit: opts.ink_limit.map(CheckInkLimit::from),
-        entries,
-        summary,
+    Ok(CheckedEntry {
+        name: e.name.clone(),
+        input: e.input.clone(),
+        line: e.line,
+        screen_lab: round_all(screen_lab.to_array(), 2),
+        press_cmyk: round_all(cmyk, 1),
+        ink_total: round(cmyk.iter().sum(), 1),
+        over_ink_limit: over,
+        printed_lab: round_all(printed.to_array(), 2),
+        delta_e00: round(de, 2),
+        in_gamut,
+        round_trip_delta_e00: round(rt, 2),
+        outside_by: outside_by.map(|d| round(d, 2)),
+        within_tolerance: de <= tolerance,
     })
 }
 

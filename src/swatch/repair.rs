@@ -395,75 +395,107 @@ pub fn repair(
     let before_check = check_against(palette, screen, press, copts, Some(gamut))?;
     let before = analyse_check(&before_check, &opts.survival);
     let all_inside = before_check.entries.iter().all(|e| e.in_gamut);
-    let o: Vec<LabD50> = before_check
-        .entries
-        .iter()
-        .map(|e| LabD50::from_array(e.screen_lab))
-        .collect();
-
     let (repaired, unchanged) = if before.passes && all_inside {
         (palette.clone(), true)
     } else {
-        let t = PressTransforms::new(screen, press, opts.mapping)?;
-        let n = o.len();
-        let pb = Problem {
-            t: &t,
-            gamut,
-            arms: arms(opts.survival.scheme, n)
-                .into_iter()
-                .map(|(_, idx)| (direction(&idx, &o), idx))
-                .collect(),
-            o: o.clone(),
-            sims: opts.survival.simulators(),
-            floor: opts.survival.min_separation,
-            min_step: opts.survival.min_step,
-            w: 1.0,
-        };
-        let x = optimise(pb, opts.iterations);
-        let to_screen: Local<[f64; 3], [f64; 3]> = transform::local(
-            Side::Lab,
-            Side::of(screen, PixelFormat::RGB_DBL),
-            RenderingIntent::Relative,
-            false,
-        )
-        .map_err(|_| RepairError::ScreenTransform {
-            name: screen.name.clone(),
-        })?;
-        let src: Vec<[f64; 3]> = x.iter().map(|l| l.to_array()).collect();
-        let mut rgb = vec![[0.0; 3]; n];
-        to_screen.transform_pixels(&src, &mut rgb);
-        let entries = palette
+        let o: Vec<LabD50> = before_check
             .entries
             .iter()
-            .enumerate()
-            .map(|(i, e)| {
-                if delta_e00(x[i], o[i]) < UNCHANGED_BELOW {
-                    return e.clone();
-                }
-                // Kept as it was when the optimiser gave no number; the
-                // checks after repair then still report it.
-                let Some(b) = codes(rgb[i]) else {
-                    return e.clone();
-                };
-                Entry {
-                    name: e.name.clone(),
-                    input: format!("#{:02x}{:02x}{:02x}", b[0], b[1], b[2]),
-                    color: ColorInput::ScreenRgb(b.map(|v| f64::from(v) / 255.0)),
-                    line: e.line,
-                }
-            })
+            .map(|e| LabD50::from_array(e.screen_lab))
             .collect();
-        (
-            Palette {
-                source: palette.source.clone(),
-                entries,
-            },
-            false,
-        )
+        let x = optimise_palette(&o, screen, press, gamut, opts)?;
+        (with_positions(palette, &o, &x, screen)?, false)
     };
-
     let after_check = check_against(&repaired, screen, press, copts, Some(gamut))?;
     let after = analyse_check(&after_check, &opts.survival);
+    let unmet = unmet(&after, &after_check);
+    let entries = repaired_entries(palette, &repaired, &before_check, &after_check);
+    Ok((
+        RepairReport {
+            palette: palette.source.clone(),
+            conditions: before_check.conditions.clone(),
+            method: METHOD,
+            unchanged,
+            entries,
+            before,
+            after,
+            unmet,
+        },
+        repaired,
+        after_check,
+    ))
+}
+
+/// The optimised CIELAB of every entry, starting from the screen colours `o`.
+fn optimise_palette(
+    o: &[LabD50],
+    screen: &IccProfile,
+    press: &IccProfile,
+    gamut: &Gamut,
+    opts: &RepairOptions,
+) -> Result<Vec<LabD50>, RepairError> {
+    let t = PressTransforms::new(screen, press, opts.mapping)?;
+    let pb = Problem {
+        t: &t,
+        gamut,
+        arms: arms(opts.survival.scheme, o.len())
+            .into_iter()
+            .map(|(_, idx)| (direction(&idx, o), idx))
+            .collect(),
+        o: o.to_vec(),
+        sims: opts.survival.simulators(),
+        floor: opts.survival.min_separation,
+        min_step: opts.survival.min_step,
+        w: 1.0,
+    };
+    Ok(optimise(pb, opts.iterations))
+}
+
+/// `palette` with each entry that moved (by [`UNCHANGED_BELOW`] or more from
+/// `o`) replaced by the screen hex of its new position `x`.
+fn with_positions(palette: &Palette, o: &[LabD50], x: &[LabD50], screen: &IccProfile) -> Result<Palette, RepairError> {
+    let to_screen: Local<[f64; 3], [f64; 3]> = transform::local(
+        Side::Lab,
+        Side::of(screen, PixelFormat::RGB_DBL),
+        RenderingIntent::Relative,
+        false,
+    )
+    .map_err(|_| RepairError::ScreenTransform {
+        name: screen.name.clone(),
+    })?;
+    let src: Vec<[f64; 3]> = x.iter().map(|l| l.to_array()).collect();
+    let mut rgb = vec![[0.0; 3]; x.len()];
+    to_screen.transform_pixels(&src, &mut rgb);
+    let entries = palette
+        .entries
+        .iter()
+        .enumerate()
+        .map(|(i, e)| {
+            if delta_e00(x[i], o[i]) < UNCHANGED_BELOW {
+                return e.clone();
+            }
+            // Kept as it was when the optimiser gave no number; the
+            // checks after repair then still report it.
+            let Some(b) = codes(rgb[i]) else {
+                return e.clone();
+            };
+            Entry {
+                name: e.name.clone(),
+                input: format!("#{:02x}{:02x}{:02x}", b[0], b[1], b[2]),
+                color: ColorInput::ScreenRgb(b.map(|v| f64::from(v) / 255.0)),
+                line: e.line,
+            }
+        })
+        .collect();
+    Ok(Palette {
+        source: palette.source.clone(),
+        entries,
+    })
+}
+
+/// What still fails after the repair: the failing palette checks and the
+/// entries outside the press gamut.
+fn unmet(after: &Survival, after_check: &CheckReport) -> Vec<String> {
     let mut unmet: Vec<String> = after.problems.iter().map(|p| p.detail.clone()).collect();
     let outside: Vec<&str> = after_check
         .entries
@@ -474,7 +506,17 @@ pub fn repair(
     if !outside.is_empty() {
         unmet.push(format!("outside the press gamut: {}", outside.join(", ")));
     }
-    let entries = palette
+    unmet
+}
+
+/// Original → repaired per entry, with the checks before and after.
+fn repaired_entries(
+    palette: &Palette,
+    repaired: &Palette,
+    before_check: &CheckReport,
+    after_check: &CheckReport,
+) -> Vec<RepairedEntry> {
+    palette
         .entries
         .iter()
         .zip(&repaired.entries)
@@ -494,21 +536,7 @@ pub fn repair(
             printed_lab: a.printed_lab,
             in_gamut: a.in_gamut,
         })
-        .collect();
-    Ok((
-        RepairReport {
-            palette: palette.source.clone(),
-            conditions: before_check.conditions.clone(),
-            method: METHOD,
-            unchanged,
-            entries,
-            before,
-            after,
-            unmet,
-        },
-        repaired,
-        after_check,
-    ))
+        .collect()
 }
 
 impl RepairReport {
