@@ -2,7 +2,12 @@
 
 use std::io::Write;
 
-use super::{busy, guarded_outputs, use_color, CheckArgs, DeltaArgs, Error, GamutTestArg, Outcome, BUSY_FROM};
+use std::path::PathBuf;
+
+use clap::Args;
+
+use super::{busy, guarded_outputs, use_color, Error, GamutTestArg, Outcome, BUSY_FROM};
+use super::{MappingArgs, ProfileArgs, SurvivalArgs};
 use crate::color::css::parse_color;
 use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
 use crate::gamut::InkLimit;
@@ -12,6 +17,55 @@ use crate::precision::round;
 use crate::report::{self, DeltaColor, DeltaReport};
 use crate::swatch::check::{check_against, CheckOptions};
 use crate::swatch::Palette;
+
+/// The options of `check`.
+#[derive(Args, Debug)]
+pub struct CheckArgs {
+    /// Palette file: .csv (with a header naming a colour column), .json (array of {"name","color"}) or plain text.
+    pub palette: PathBuf,
+    /// The screen and press profiles.
+    #[command(flatten)]
+    pub profiles: ProfileArgs,
+    /// How screen colours are sent to the press.
+    #[command(flatten)]
+    pub mapping: MappingArgs,
+    /// Largest acceptable CIEDE2000 between screen and print. The default 3.0 is a rule of thumb, not a standard.
+    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::check::DEFAULT_TOLERANCE)]
+    pub tolerance: f64,
+    /// Show the print on the paper's own white (absolute colorimetric), so the paper's tint counts.
+    #[arg(long)]
+    pub paper_white: bool,
+    /// Write JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+    /// Exit with code 1 when the verdict fails: a colour beyond the tolerance, outside the press gamut or over its ink limit, or a failed separation, order or CVD check.
+    #[arg(long)]
+    pub strict: bool,
+    /// How "in gamut" is decided: inside the press gamut's boundary, or by a CIELAB → press → CIELAB round trip.
+    #[arg(long, value_enum, default_value = "boundary")]
+    pub gamut_test: GamutTestArg,
+    /// Also write the xy chromaticity diagram of the check (outlines, an arrow per colour) as SVG.
+    #[arg(long, value_name = "FILE.svg")]
+    pub svg: Option<PathBuf>,
+    /// The palette checks beyond the per-colour results.
+    #[command(flatten)]
+    pub survival: SurvivalArgs,
+}
+
+/// The options of `delta`.
+#[derive(Args, Debug)]
+pub struct DeltaArgs {
+    /// First colour (the reference for ΔE*94 and CMC), in CSS colour syntax.
+    pub a: String,
+    /// Second colour.
+    pub b: String,
+    /// The profiles that turn RGB and CMYK colours into CIELAB.
+    #[command(flatten)]
+    pub profiles: ProfileArgs,
+    /// Write JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+}
 
 pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     super::check_tolerance(a.tolerance)?;

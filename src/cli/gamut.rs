@@ -4,12 +4,33 @@
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
-use super::GamutArgs;
+use clap::Args;
+
 use super::{Error, Outcome};
 use crate::gamut::export::{write_mesh, MeshFormat};
 use crate::gamut::result::{GamutReport, MeshFile};
 use crate::gamut::{coverage_all, Gamut, GamutError, GamutOptions};
 use crate::icc::IccProfile;
+
+/// The options of `gamut`.
+#[derive(Args, Debug)]
+pub struct GamutArgs {
+    /// Profiles (built-in names or ICC files): RGB screens or CMYK presses.
+    #[arg(required = true, value_name = "PROFILE")]
+    pub profiles: Vec<String>,
+    /// Write JSON instead of tables.
+    #[arg(long)]
+    pub json: bool,
+    /// Write each boundary as a triangle mesh: .ply, .gltf or .glb (several profiles: FILE-1.ext, FILE-2.ext, …).
+    #[arg(long, value_name = "FILE")]
+    pub mesh: Option<PathBuf>,
+    /// Total-ink limit for CMYK profiles in percent (default: measured from each profile's CIELAB → CMYK table).
+    #[arg(long, allow_negative_numbers = true, value_name = "PERCENT")]
+    pub ink_limit: Option<f64>,
+    /// Also write a*b* slices of every gamut at L* 25, 50 and 75 as SVG.
+    #[arg(long, value_name = "FILE.svg")]
+    pub svg: Option<PathBuf>,
+}
 
 /// Voxel edge of the shared coverage grid, CIELAB units.
 const COVERAGE_VOXEL: f64 = 1.0;

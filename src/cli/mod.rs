@@ -15,7 +15,7 @@ mod proof_budget;
 pub mod repair;
 
 use std::io::{IsTerminal, Write};
-use std::path::{Path, PathBuf};
+use std::path::Path;
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
 
@@ -41,24 +41,24 @@ pub struct Cli {
 #[derive(Subcommand, Debug)]
 pub enum Command {
     /// Check each colour of a palette against the press: CMYK, ink, printed CIELAB, CIEDE2000, gamut.
-    Check(CheckArgs),
+    Check(check::CheckArgs),
     /// Colour difference of two colours: ΔE*ab, ΔE*94, CIEDE2000 and CMC(2:1).
-    Delta(DeltaArgs),
+    Delta(check::DeltaArgs),
     /// Describe an ICC profile: identity, white, intents with tables, primaries, maximum ink.
-    Inspect(InspectArgs),
+    Inspect(profiles::InspectArgs),
     /// List the built-in profiles.
-    Profiles(ProfilesArgs),
+    Profiles(profiles::ProfilesArgs),
     /// Soft-proof images: how they print on the press, a CIEDE2000 map and statistics.
     Proof(proof::ProofArgs),
     /// Gamut of each profile in CIELAB: volume, lightness range, chroma per hue, coverage of each pair, meshes.
-    Gamut(GamutArgs),
+    Gamut(gamut::GamutArgs),
     /// Draw a figure as SVG: xy or u′v′ chromaticity diagram, a*b* slices, or a hue leaf.
     Plot(plot::PlotArgs),
     /// Propose the nearest palette that prints: inside the press gamut, classes kept apart, order kept.
     Repair(repair::RepairArgs),
     /// Maintainers: rebuild a built-in press profile from its printing model.
     #[command(hide = true)]
-    BuildPress(BuildPressArgs),
+    BuildPress(profiles::BuildPressArgs),
 }
 
 /// `--intent`: the rendering intent from screen to press.
@@ -120,40 +120,6 @@ impl MappingArgs {
     }
 }
 
-/// The options of `check`.
-#[derive(Args, Debug)]
-pub struct CheckArgs {
-    /// Palette file: .csv (with a header naming a colour column), .json (array of {"name","color"}) or plain text.
-    pub palette: PathBuf,
-    /// The screen and press profiles.
-    #[command(flatten)]
-    pub profiles: ProfileArgs,
-    /// How screen colours are sent to the press.
-    #[command(flatten)]
-    pub mapping: MappingArgs,
-    /// Largest acceptable CIEDE2000 between screen and print. The default 3.0 is a rule of thumb, not a standard.
-    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::check::DEFAULT_TOLERANCE)]
-    pub tolerance: f64,
-    /// Show the print on the paper's own white (absolute colorimetric), so the paper's tint counts.
-    #[arg(long)]
-    pub paper_white: bool,
-    /// Write JSON instead of a table.
-    #[arg(long)]
-    pub json: bool,
-    /// Exit with code 1 when the verdict fails: a colour beyond the tolerance, outside the press gamut or over its ink limit, or a failed separation, order or CVD check.
-    #[arg(long)]
-    pub strict: bool,
-    /// How "in gamut" is decided: inside the press gamut's boundary, or by a CIELAB → press → CIELAB round trip.
-    #[arg(long, value_enum, default_value = "boundary")]
-    pub gamut_test: GamutTestArg,
-    /// Also write the xy chromaticity diagram of the check (outlines, an arrow per colour) as SVG.
-    #[arg(long, value_name = "FILE.svg")]
-    pub svg: Option<PathBuf>,
-    /// The palette checks beyond the per-colour results.
-    #[command(flatten)]
-    pub survival: repair::SurvivalArgs,
-}
-
 /// `--gamut-test`: how "in gamut" is decided.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
 pub enum GamutTestArg {
@@ -163,68 +129,73 @@ pub enum GamutTestArg {
     RoundTrip,
 }
 
-/// The options of `delta`.
-#[derive(Args, Debug)]
-pub struct DeltaArgs {
-    /// First colour (the reference for ΔE*94 and CMC), in CSS colour syntax.
-    pub a: String,
-    /// Second colour.
-    pub b: String,
-    /// The profiles that turn RGB and CMYK colours into CIELAB.
-    #[command(flatten)]
-    pub profiles: ProfileArgs,
-    /// Write JSON instead of a table.
-    #[arg(long)]
-    pub json: bool,
+/// `--scheme`: the kind of palette.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum SchemeArg {
+    /// Unordered classes: no lightness order is checked.
+    Qualitative,
+    /// A sequential scale in file order: lightness order and steps are checked too.
+    Sequential,
+    /// Two arms from the middle entry: order and steps on each arm, and their symmetry.
+    Diverging,
 }
 
-/// The options of `inspect`.
-#[derive(Args, Debug)]
-pub struct InspectArgs {
-    /// Built-in name or ICC file.
-    pub profile: String,
-    /// Write JSON instead of text.
-    #[arg(long)]
-    pub json: bool,
+/// `--cvd`: a colour-vision deficiency to simulate.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum CvdArg {
+    /// Missing or anomalous L cones.
+    Protan,
+    /// Missing or anomalous M cones.
+    Deutan,
+    /// Missing or anomalous S cones.
+    Tritan,
 }
 
-/// The options of `profiles`.
-#[derive(Args, Debug)]
-pub struct ProfilesArgs {
-    /// Write JSON instead of a table.
-    #[arg(long)]
-    pub json: bool,
+/// The palette checks shared by `check` and `repair`.
+#[derive(Args, Debug, Clone)]
+pub struct SurvivalArgs {
+    /// Kind of palette: qualitative classes, a sequential scale (file order), or diverging (two arms from the middle entry).
+    #[arg(long, value_enum, default_value = "qualitative")]
+    pub scheme: SchemeArg,
+    /// Smallest printed ΔE00 between any two entries. The default 10 is a rule of thumb for map classes told apart at a glance, not a standard.
+    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::separation::DEFAULT_MIN_SEPARATION)]
+    pub min_separation: f64,
+    /// Smallest ΔE00 between neighbouring steps of a sequential or diverging scheme (a rule of thumb).
+    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::order::DEFAULT_MIN_STEP)]
+    pub min_step: f64,
+    /// Colour-vision deficiencies to simulate on the printed colours, comma-separated.
+    #[arg(long, value_enum, value_delimiter = ',', value_name = "LIST")]
+    pub cvd: Vec<CvdArg>,
+    /// Severity of the simulated deficiencies, 0 (normal vision) to 1 (dichromacy).
+    #[arg(long, allow_negative_numbers = true, value_name = "0..1", default_value_t = 1.0)]
+    pub cvd_severity: f64,
 }
 
-/// The options of `gamut`.
-#[derive(Args, Debug)]
-pub struct GamutArgs {
-    /// Profiles (built-in names or ICC files): RGB screens or CMYK presses.
-    #[arg(required = true, value_name = "PROFILE")]
-    pub profiles: Vec<String>,
-    /// Write JSON instead of tables.
-    #[arg(long)]
-    pub json: bool,
-    /// Write each boundary as a triangle mesh: .ply, .gltf or .glb (several profiles: FILE-1.ext, FILE-2.ext, …).
-    #[arg(long, value_name = "FILE")]
-    pub mesh: Option<PathBuf>,
-    /// Total-ink limit for CMYK profiles in percent (default: measured from each profile's CIELAB → CMYK table).
-    #[arg(long, allow_negative_numbers = true, value_name = "PERCENT")]
-    pub ink_limit: Option<f64>,
-    /// Also write a*b* slices of every gamut at L* 25, 50 and 75 as SVG.
-    #[arg(long, value_name = "FILE.svg")]
-    pub svg: Option<PathBuf>,
-}
-
-/// The options of the hidden `build-press`.
-#[derive(Args, Debug)]
-pub struct BuildPressArgs {
-    /// Built-in press condition to rebuild.
-    #[arg(default_value = "offset-coated")]
-    pub name: String,
-    /// Where to write the ICC file.
-    #[arg(long, value_name = "FILE")]
-    pub out: PathBuf,
+impl SurvivalArgs {
+    /// The survival options these arguments ask for; an error when a value is out of range.
+    pub fn options(&self) -> Result<crate::swatch::survival::SurvivalOptions, Error> {
+        let o = crate::swatch::survival::SurvivalOptions {
+            scheme: match self.scheme {
+                SchemeArg::Qualitative => crate::swatch::order::Scheme::Qualitative,
+                SchemeArg::Sequential => crate::swatch::order::Scheme::Sequential,
+                SchemeArg::Diverging => crate::swatch::order::Scheme::Diverging,
+            },
+            min_separation: self.min_separation,
+            min_step: self.min_step,
+            cvd: self
+                .cvd
+                .iter()
+                .map(|c| match c {
+                    CvdArg::Protan => crate::color::cvd::Deficiency::Protan,
+                    CvdArg::Deutan => crate::color::cvd::Deficiency::Deutan,
+                    CvdArg::Tritan => crate::color::cvd::Deficiency::Tritan,
+                })
+                .collect(),
+            cvd_severity: self.cvd_severity,
+        };
+        o.validate()?;
+        Ok(o)
+    }
 }
 
 /// How a successful run ended.

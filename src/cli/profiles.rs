@@ -3,10 +3,43 @@
 
 use std::io::Write;
 
-use super::{BuildPressArgs, Error, InspectArgs, Outcome, ProfilesArgs};
+use std::path::PathBuf;
+
+use clap::Args;
+
+use super::{Error, Outcome};
 use crate::icc::{builtin, inspect, IccProfile};
 use crate::io::Outputs;
 use crate::report;
+
+/// The options of `inspect`.
+#[derive(Args, Debug)]
+pub struct InspectArgs {
+    /// Built-in name or ICC file.
+    pub profile: String,
+    /// Write JSON instead of text.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// The options of `profiles`.
+#[derive(Args, Debug)]
+pub struct ProfilesArgs {
+    /// Write JSON instead of a table.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// The options of the hidden `build-press`.
+#[derive(Args, Debug)]
+pub struct BuildPressArgs {
+    /// Built-in press condition to rebuild.
+    #[arg(default_value = "offset-coated")]
+    pub name: String,
+    /// Where to write the ICC file.
+    #[arg(long, value_name = "FILE")]
+    pub out: PathBuf,
+}
 
 pub(super) fn run_inspect(a: InspectArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     let p = IccProfile::load(&a.profile)?;

@@ -1,90 +1,20 @@
-//! `inkfit repair` and the palette-survival options shared with
-//! `inkfit check` (scheme, separation floor, minimum step, deficiencies).
+//! `inkfit repair`, and the ending of `inkfit check` with its palette
+//! checks, which repair shares. The palette-check options themselves
+//! ([`super::SurvivalArgs`]) are shared and live in `mod.rs`.
 
 use std::io::Write;
 use std::path::PathBuf;
 
-use clap::{Args, ValueEnum};
+use clap::Args;
 
 use super::{Error, Outcome};
-use super::{MappingArgs, ProfileArgs};
-use crate::color::cvd::Deficiency;
+use super::{MappingArgs, ProfileArgs, SurvivalArgs};
 use crate::icc::IccProfile;
 use crate::swatch::check::CheckReport;
-use crate::swatch::order::Scheme;
 use crate::swatch::repair::{repair, RepairOptions};
 use crate::swatch::rewrite::{rewrite, text_heading};
-use crate::swatch::survival::{verdict, CheckWithSurvival, Survival, SurvivalOptions};
+use crate::swatch::survival::{verdict, CheckWithSurvival, Survival};
 use crate::swatch::{Format, Palette};
-
-/// `--scheme`: the kind of palette.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
-pub enum SchemeArg {
-    /// Unordered classes: no lightness order is checked.
-    Qualitative,
-    /// A sequential scale in file order: lightness order and steps are checked too.
-    Sequential,
-    /// Two arms from the middle entry: order and steps on each arm, and their symmetry.
-    Diverging,
-}
-
-/// `--cvd`: a colour-vision deficiency to simulate.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
-pub enum CvdArg {
-    /// Missing or anomalous L cones.
-    Protan,
-    /// Missing or anomalous M cones.
-    Deutan,
-    /// Missing or anomalous S cones.
-    Tritan,
-}
-
-/// The palette checks shared by `check` and `repair`.
-#[derive(Args, Debug, Clone)]
-pub struct SurvivalArgs {
-    /// Kind of palette: qualitative classes, a sequential scale (file order), or diverging (two arms from the middle entry).
-    #[arg(long, value_enum, default_value = "qualitative")]
-    pub scheme: SchemeArg,
-    /// Smallest printed ΔE00 between any two entries. The default 10 is a rule of thumb for map classes told apart at a glance, not a standard.
-    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::separation::DEFAULT_MIN_SEPARATION)]
-    pub min_separation: f64,
-    /// Smallest ΔE00 between neighbouring steps of a sequential or diverging scheme (a rule of thumb).
-    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::order::DEFAULT_MIN_STEP)]
-    pub min_step: f64,
-    /// Colour-vision deficiencies to simulate on the printed colours, comma-separated.
-    #[arg(long, value_enum, value_delimiter = ',', value_name = "LIST")]
-    pub cvd: Vec<CvdArg>,
-    /// Severity of the simulated deficiencies, 0 (normal vision) to 1 (dichromacy).
-    #[arg(long, allow_negative_numbers = true, value_name = "0..1", default_value_t = 1.0)]
-    pub cvd_severity: f64,
-}
-
-impl SurvivalArgs {
-    /// The survival options these arguments ask for; an error when a value is out of range.
-    pub fn options(&self) -> Result<SurvivalOptions, Error> {
-        let o = SurvivalOptions {
-            scheme: match self.scheme {
-                SchemeArg::Qualitative => Scheme::Qualitative,
-                SchemeArg::Sequential => Scheme::Sequential,
-                SchemeArg::Diverging => Scheme::Diverging,
-            },
-            min_separation: self.min_separation,
-            min_step: self.min_step,
-            cvd: self
-                .cvd
-                .iter()
-                .map(|c| match c {
-                    CvdArg::Protan => Deficiency::Protan,
-                    CvdArg::Deutan => Deficiency::Deutan,
-                    CvdArg::Tritan => Deficiency::Tritan,
-                })
-                .collect(),
-            cvd_severity: self.cvd_severity,
-        };
-        o.validate()?;
-        Ok(o)
-    }
-}
 
 /// Renders `check` with its survival section; the outcome under `--strict`.
 pub fn finish_check(
