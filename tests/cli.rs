@@ -266,11 +266,28 @@ fn inspect_reads_a_profile_file() {
 #[test]
 fn profiles_lists_the_builtins() {
     let out = stdout(&run(&["profiles"]));
-    for n in ["srgb", "display-p3", "oprgb", "rec2020", "prophoto", "offset-coated"] {
+    let names = [
+        "srgb",
+        "display-p3",
+        "oprgb",
+        "rec2020",
+        "prophoto",
+        "offset-coated",
+        "offset-uncoated",
+        "newsprint-coldset",
+    ];
+    for n in names {
         assert!(out.contains(n), "{n}");
     }
     let v = json(&run(&["profiles", "--json"]));
-    assert_eq!(v.as_array().unwrap().len(), 6);
+    let listed = v.as_array().unwrap();
+    assert_eq!(listed.len(), names.len());
+    // Every press condition is listed with role press and its definition.
+    for n in ["offset-coated", "offset-uncoated", "newsprint-coldset"] {
+        let e = listed.iter().find(|e| e["name"] == n).unwrap();
+        assert_eq!(e["role"], "press", "{e}");
+        assert!(e["definition"].as_str().unwrap().contains("ISO 12647"), "{e}");
+    }
 }
 
 #[test]

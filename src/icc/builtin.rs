@@ -66,6 +66,18 @@ pub const BUILTINS: &[BuiltinInfo] = &[
         summary: "offset on coated paper, 330 % total area coverage",
         definition: "inkfit's own printing model with ISO 12647-2 style aim values (see DEVELOPERS.md)",
     },
+    BuiltinInfo {
+        name: "offset-uncoated",
+        role: Role::Press,
+        summary: "offset on wood-free uncoated paper, 300 % total area coverage",
+        definition: "inkfit's own printing model with ISO 12647-2 paper type 4 style aim values, from memory (see DEVELOPERS.md)",
+    },
+    BuiltinInfo {
+        name: "newsprint-coldset",
+        role: Role::Press,
+        summary: "coldset offset on newsprint, 240 % total area coverage, strong GCR",
+        definition: "inkfit's own printing model with ISO 12647-3 style aim values, from memory (see DEVELOPERS.md)",
+    },
 ];
 
 /// The names of every built-in, in [`BUILTINS`] order.
@@ -193,10 +205,19 @@ pub const PROFILE_DATE: [u16; 6] = [2024, 1, 1, 0, 0, 0];
 /// (rebuilt by `inkfit build-press offset-coated --out profiles/offset-coated.icc`).
 pub static OFFSET_COATED_ICC: &[u8] = include_bytes!("../../profiles/offset-coated.icc");
 
-/// The committed ICC profile bytes of the built-in press of that name.
+/// The committed ICC output profile of `offset-uncoated`.
+pub static OFFSET_UNCOATED_ICC: &[u8] = include_bytes!("../../profiles/offset-uncoated.icc");
+
+/// The committed ICC output profile of `newsprint-coldset`.
+pub static NEWSPRINT_COLDSET_ICC: &[u8] = include_bytes!("../../profiles/newsprint-coldset.icc");
+
+/// The committed ICC profile bytes of the built-in press of that name
+/// (each rebuilt by `inkfit build-press NAME --out profiles/NAME.icc`).
 pub fn press_icc(name: &str) -> Option<&'static [u8]> {
     match name {
         "offset-coated" => Some(OFFSET_COATED_ICC),
+        "offset-uncoated" => Some(OFFSET_UNCOATED_ICC),
+        "newsprint-coldset" => Some(NEWSPRINT_COLDSET_ICC),
         _ => None,
     }
 }

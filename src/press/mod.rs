@@ -12,7 +12,7 @@ pub mod spec;
 
 pub use icc_writer::build_icc;
 pub use invert::InkSolution;
-pub use model::{offset_coated, PrintCondition};
+pub use model::{newsprint_coldset, offset_coated, offset_uncoated, PrintCondition};
 pub use spec::{Aims, GcrCurve, PressSpec};
 
 /// Errors of the press module.
@@ -30,12 +30,14 @@ pub enum PressError {
 }
 
 /// Names of the built-in press conditions.
-pub const BUILTIN_PRESS_NAMES: &[&str] = &["offset-coated"];
+pub const BUILTIN_PRESS_NAMES: &[&str] = &["offset-coated", "offset-uncoated", "newsprint-coldset"];
 
 /// The built-in press condition of that name.
 pub fn builtin_press(name: &str) -> Option<PrintCondition> {
     match name {
         "offset-coated" => Some(offset_coated()),
+        "offset-uncoated" => Some(offset_uncoated()),
+        "newsprint-coldset" => Some(newsprint_coldset()),
         _ => None,
     }
 }

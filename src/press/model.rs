@@ -11,7 +11,7 @@
 //!   or ICC media-relative (XYZ scaled per channel by D50 / paper: the
 //!   media-relative colorimetry of ICC.1:2010).
 
-use super::spec::{offset_coated_spec, PressSpec};
+use super::spec::{newsprint_coldset_spec, offset_coated_spec, offset_uncoated_spec, PressSpec};
 use super::PressError;
 use crate::color::{LabD50, Xyz, D50};
 
@@ -95,6 +95,17 @@ pub fn offset_coated() -> PrintCondition {
     // The built-in spec passes `PrintCondition::new` (checked by the test
     // `built_in_spec_is_valid`), so it is built without the fallible path.
     PrintCondition::build_unchecked(offset_coated_spec())
+}
+
+/// The built-in `offset-uncoated` condition (see [`offset_coated`] on why
+/// it is built unchecked).
+pub fn offset_uncoated() -> PrintCondition {
+    PrintCondition::build_unchecked(offset_uncoated_spec())
+}
+
+/// The built-in `newsprint-coldset` condition (see [`offset_coated`]).
+pub fn newsprint_coldset() -> PrintCondition {
+    PrintCondition::build_unchecked(newsprint_coldset_spec())
 }
 
 fn xyz_array(lab: LabD50) -> [f64; 3] {
@@ -544,5 +555,7 @@ mod tests {
     #[test]
     fn built_in_spec_is_valid() {
         assert!(PrintCondition::new(offset_coated_spec()).is_ok());
+        assert!(PrintCondition::new(offset_uncoated_spec()).is_ok());
+        assert!(PrintCondition::new(newsprint_coldset_spec()).is_ok());
     }
 }

@@ -170,6 +170,104 @@ pub fn offset_coated_spec() -> PressSpec {
     }
 }
 
+/// The aims of ISO 12647-2:2004/Amd 1:2007 for paper type 4 (uncoated
+/// white, wood-free), white backing, D50 / 2°, 0°/45°, M0. Values from
+/// memory; the overprints are the least certain.
+pub fn iso_uncoated_aims() -> Aims {
+    Aims {
+        paper: LabD50::new(95.0, 0.0, -2.0),
+        cyan: LabD50::new(58.0, -25.0, -43.0),
+        magenta: LabD50::new(54.0, 58.0, -2.0),
+        yellow: LabD50::new(86.0, -4.0, 75.0),
+        black: LabD50::new(31.0, 1.0, 1.0),
+        cyan_magenta: LabD50::new(39.0, 8.0, -30.0),
+        cyan_yellow: LabD50::new(52.0, -42.0, 13.0),
+        magenta_yellow: LabD50::new(52.0, 55.0, 26.0),
+        cyan_magenta_yellow: LabD50::new(36.0, 0.0, 0.0),
+    }
+}
+
+/// The spec of the built-in `offset-uncoated` condition.
+///
+/// - Aims: [`iso_uncoated_aims`].
+/// - TVI at 50 %: 20 % for C, M, Y and 22 % for K: uncoated paper spreads
+///   ink further than coated; from memory, ISO 12647-2 puts paper type 4
+///   on a steeper curve than types 1/2, with black above the chromatic inks.
+/// - Yule–Nielsen n = 2.0: light scatters further in uncoated stock, so n
+///   is higher than for coated paper (from memory, values around 2 are
+///   reported).
+/// - TAC 300 %: common practice for uncoated sheet-fed offset.
+/// - Black generation: medium GCR with full black at L* 33, about the
+///   media-relative lightness of this black solid.
+/// - Black-overprint floor 2.5 % of paper (relative density 1.6, about the
+///   highest density on uncoated offset, from memory).
+pub fn offset_uncoated_spec() -> PressSpec {
+    PressSpec {
+        name: "offset-uncoated".to_string(),
+        description: "inkfit offset-uncoated: uncoated offset model, ISO 12647-2 style aims".to_string(),
+        aims: iso_uncoated_aims(),
+        tvi50: [0.20, 0.20, 0.20, 0.22],
+        yule_nielsen_n: 2.0,
+        tac_percent: 300.0,
+        gcr: GcrCurve {
+            l_full: 33.0,
+            ..GcrCurve::medium()
+        },
+        black_overprint_floor: 0.025,
+    }
+}
+
+/// The aims of ISO 12647-3:2005 for coldset offset on standard newsprint,
+/// D50 / 2°, 0°/45°, black backing as the standard measures newsprint.
+/// Values from memory, the overprints least certain.
+pub fn iso_newsprint_aims() -> Aims {
+    Aims {
+        paper: LabD50::new(82.0, 0.0, 3.0),
+        cyan: LabD50::new(57.0, -23.0, -27.0),
+        magenta: LabD50::new(54.0, 44.0, -2.0),
+        yellow: LabD50::new(78.0, -3.0, 58.0),
+        black: LabD50::new(36.0, 1.0, 4.0),
+        cyan_magenta: LabD50::new(42.0, 8.0, -19.0),
+        cyan_yellow: LabD50::new(53.0, -25.0, 14.0),
+        magenta_yellow: LabD50::new(51.0, 41.0, 18.0),
+        cyan_magenta_yellow: LabD50::new(40.0, 1.0, 2.0),
+    }
+}
+
+/// The spec of the built-in `newsprint-coldset` condition.
+///
+/// - Aims: [`iso_newsprint_aims`].
+/// - TVI at 50 %: 25 % for every ink, the largest the designed parabola
+///   allows (it must stay monotone); ISO 12647-3 specifies about 26 % at
+///   40 % (from memory), steeper than this curve near the middle.
+/// - Yule–Nielsen n = 2.2: newsprint scatters light furthest of the three
+///   papers (from memory, values above 2 are reported for newsprint).
+/// - TAC 240 %: common practice for coldset newsprint.
+/// - Black generation: strong GCR, common practice on newsprint to save ink
+///   and dry faster: black from L* 85, full black at L* 46 (about the
+///   media-relative lightness of this black solid), a gentler rise
+///   (γ = 1.2) and halved only at C* = 40.
+/// - Black-overprint floor 6 % of paper (relative density 1.2, about the
+///   highest density coldset reaches, from memory).
+pub fn newsprint_coldset_spec() -> PressSpec {
+    PressSpec {
+        name: "newsprint-coldset".to_string(),
+        description: "inkfit newsprint-coldset: coldset newsprint model, ISO 12647-3 style aims".to_string(),
+        aims: iso_newsprint_aims(),
+        tvi50: [0.25, 0.25, 0.25, 0.25],
+        yule_nielsen_n: 2.2,
+        tac_percent: 240.0,
+        gcr: GcrCurve {
+            l_start: 85.0,
+            l_full: 46.0,
+            exponent: 1.2,
+            chroma_half: 40.0,
+            weight: 1.0,
+        },
+        black_overprint_floor: 0.06,
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
