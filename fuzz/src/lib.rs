@@ -123,3 +123,30 @@ pub fn scratch_file(data: &[u8]) -> &'static Path {
     f.write_all(data).expect("the scratch file can be written");
     path
 }
+
+/// CGATS.17 measurement text: parsed or refused with a one-line error that
+/// names the file; every accepted patch has finite CMYK in 0..100 %, finite
+/// CIELAB, a 1-based line and at least one repeat.
+pub fn cgats(data: &[u8]) {
+    let Ok(text) = std::str::from_utf8(data) else {
+        return;
+    };
+    match inkfit::press::cgats::Measurements::parse("fuzz-input", text) {
+        Ok(m) => {
+            assert!(m.patches.len() <= m.rows, "property: no more patches than rows");
+            for p in &m.patches {
+                assert!(p.cmyk.iter().all(|v| (0.0..=100.0).contains(v)), "property: CMYK in range: {p:?}");
+                assert!(
+                    [p.lab.l, p.lab.a, p.lab.b, p.spread_de00].iter().all(|v| v.is_finite()),
+                    "property: finite CIELAB: {p:?}"
+                );
+                assert!(p.line >= 1 && p.repeats >= 1, "property: line and repeats: {p:?}");
+            }
+        }
+        Err(e) => {
+            let msg = e.to_string();
+            assert!(msg.starts_with("fuzz-input"), "property: the error names the file: {msg}");
+            assert!(!msg.contains('\n'), "property: one line: {msg}");
+        }
+    }
+}

@@ -4,6 +4,7 @@
 //! profiles like any other and live with the built-in profiles in
 //! [`crate::icc::builtin`]; this module depends on `icc`, never the reverse.
 
+pub mod cgats;
 pub mod icc_writer;
 pub mod invert;
 pub mod mapping;
