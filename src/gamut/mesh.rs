@@ -260,12 +260,15 @@ const BUCKETS_SEARCHED: usize = 12;
 /// centroid. A bucket's vertices lie within r = √3·6/2 ≈ 5.2 CIELAB units
 /// of its centroid, so the bucket of the nearest vertex cannot be skipped
 /// when the margin is at least 2·f·r, with f the largest ratio ΔE00 / ΔE*ab
-/// over differences of that size. ΔE00 is not bounded by ΔE*ab: near the
-/// neutral axis a* is stretched by up to 1 + G = 1.5, and the rotation term
-/// R_T (|R_T| ≤ 2) can add as much again as the chroma and hue terms
-/// (Sharma, Wu and Dalal 2005, eqs. 2–3 and 19–22); with S_L, S_C, S_H ≥ 1
-/// that gives f ≤ 1.5·√2 ≈ 2.13. The margin uses f = 2.2.
-const BUCKET_MARGIN: f64 = 2.0 * 2.2 * 5.2;
+/// over differences of that size. ΔE00 is not bounded by ΔE*ab (Sharma, Wu
+/// and Dalal 2005, eqs. 2–3 and 19–22): a* is stretched by 1 + G with
+/// G = ½(1 − R_C), R_C = √(C̄⁷/(C̄⁷ + 25⁷)), and the rotation term adds
+/// R_T·ΔC′ΔH′ with |R_T| ≤ 2·sin 60°·R_C ≤ √3·R_C, at most
+/// (√3/2)·R_C·(ΔC′² + ΔH′²). With S_L, S_C, S_H ≥ 1 this gives
+/// f ≤ (1.5 − 0.5·R_C)·√(1 + 0.866·R_C), whose largest value over
+/// 0 ≤ R_C ≤ 1 is 1.52 (at R_C ≈ 0.25; 1.5 on the neutral axis). The
+/// margin uses f = 1.55.
+const BUCKET_MARGIN: f64 = 2.0 * 1.55 * 5.2;
 /// Barycentric steps per triangle edge in the final refinement.
 const REFINE_STEPS: usize = 8;
 
