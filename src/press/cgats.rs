@@ -31,6 +31,9 @@ pub const MAX_CGATS_BYTES: u64 = 16 << 20;
 /// few thousand patches; common practice).
 pub const MAX_PATCHES: usize = 100_000;
 
+/// The ink fields every measurement file must have, in C, M, Y, K order.
+const CMYK_FIELDS: [&str; 4] = ["CMYK_C", "CMYK_M", "CMYK_Y", "CMYK_K"];
+
 /// Why a measurement file cannot be used. Each names the file.
 #[derive(Debug, thiserror::Error)]
 pub enum CgatsError {
@@ -234,7 +237,7 @@ impl Measurements {
             }
         }
         let col = |name: &str| fields.iter().position(|f| f == name);
-        let cmyk_cols = ["CMYK_C", "CMYK_M", "CMYK_Y", "CMYK_K"].map(col);
+        let cmyk_cols = CMYK_FIELDS.map(col);
         let Some(cmyk_cols) = all(cmyk_cols) else {
             return Err(missing(file, "the data format lacks CMYK_C, CMYK_M, CMYK_Y and CMYK_K"));
         };
@@ -266,21 +269,14 @@ impl Measurements {
                     .ok_or_else(|| syntax(*line, format!("{what} \"{}\" is not a number", t[c])))
             };
             let mut cmyk = [0.0; 4];
-            for (v, (&c, name)) in cmyk
-                .iter_mut()
-                .zip(cmyk_cols.iter().zip(["CMYK_C", "CMYK_M", "CMYK_Y", "CMYK_K"]))
-            {
+            for (v, (&c, name)) in cmyk.iter_mut().zip(cmyk_cols.iter().zip(CMYK_FIELDS)) {
                 *v = num(c, name)?;
                 if !(0.0..=100.0).contains(v) {
                     return Err(syntax(*line, format!("{name} {v} lies outside 0..100 %")));
                 }
             }
-            let c = colour_cols.map(|c| num(c, &fields[c]));
-            let [a, b, z] = [c[0].as_ref(), c[1].as_ref(), c[2].as_ref()];
-            let (a, b, z) = match (a, b, z) {
-                (Ok(a), Ok(b), Ok(z)) => (*a, *b, *z),
-                _ => return Err(c.into_iter().find_map(Result::err).expect("one is an error")),
-            };
+            let [a, b, z] = colour_cols.map(|c| num(c, &fields[c]));
+            let (a, b, z) = (a?, b?, z?);
             let lab = match colour_fields {
                 ColourFields::Lab => {
                     if !(0.0..=101.0).contains(&a) {
@@ -368,12 +364,13 @@ fn missing(file: &str, detail: &str) -> CgatsError {
     }
 }
 
+/// Every column, or `None` when one is missing.
 fn all<const N: usize>(v: [Option<usize>; N]) -> Option<[usize; N]> {
-    if v.iter().all(Option::is_some) {
-        Some(v.map(|x| x.unwrap_or(0)))
-    } else {
-        None
+    let mut out = [0; N];
+    for (o, x) in out.iter_mut().zip(v) {
+        *o = x?;
     }
+    Some(out)
 }
 
 /// The tokens of a line: runs of non-blank characters or double-quoted

@@ -410,21 +410,16 @@ impl ProofEngine {
 
     /// ΔE00 of the pixels of chunk `s` into the tally and the map chunk `m`.
     fn measure(&self, s: &[u8], m: Option<&mut [u8]>, heat: Option<&HeatScale>, method: Method, t: &mut Tally) {
-        match method {
-            _ if self.channels == 4 => {
-                let v = self.press_deltas(s);
-                accumulate(&v, m, heat, t);
-            }
-            Method::Table if self.table.is_some() => {
-                let table = self.table.as_ref().expect("checked by the guard");
-                match (self.channels, self.bits) {
-                    (1, 8) => self.fused::<1, 1>(table, s, m, heat, t),
-                    (1, _) => self.fused::<1, 2>(table, s, m, heat, t),
-                    (_, 8) => self.fused::<3, 1>(table, s, m, heat, t),
-                    _ => self.fused::<3, 2>(table, s, m, heat, t),
-                }
-            }
-            Method::Table | Method::Exact => {
+        // CMYK engines have no table, so they always take the exact path
+        // (`chunk_deltas` evaluates press data per run of equal pixels).
+        match (method, &self.table) {
+            (Method::Table, Some(table)) => match (self.channels, self.bits) {
+                (1, 8) => self.fused::<1, 1>(table, s, m, heat, t),
+                (1, _) => self.fused::<1, 2>(table, s, m, heat, t),
+                (_, 8) => self.fused::<3, 1>(table, s, m, heat, t),
+                _ => self.fused::<3, 2>(table, s, m, heat, t),
+            },
+            _ => {
                 let v = self.chunk_deltas(s, Method::Exact);
                 accumulate(&v, m, heat, t);
             }

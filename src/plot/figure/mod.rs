@@ -104,15 +104,12 @@ fn hex_of(lab: [f64; 3]) -> String {
 /// with white. Not the colour itself, only a hint of its hue.
 fn tint_of(c: Xy) -> String {
     // A chromaticity with y = 0 (or not a number) has no XYZ of Y = 1; it
-    // gets the tint of the equal-energy point instead of a black wedge.
-    if !(c.y > 1e-9 && c.x.is_finite()) {
-        return tint_of(Xy {
-            x: 1.0 / 3.0,
-            y: 1.0 / 3.0,
-        });
-    }
-    // Equal-energy XYZ as the fallback, though y > 0 is checked above.
-    let xyz = crate::color::Xyz::from_xy(c, 1.0).unwrap_or(crate::color::Xyz::new(1.0, 1.0, 1.0));
+    // gets the tint of the equal-energy point (XYZ 1, 1, 1) instead of a
+    // black wedge.
+    let xyz = match crate::color::Xyz::from_xy(c, 1.0) {
+        Some(xyz) if c.y > 1e-9 && c.x.is_finite() => xyz,
+        _ => crate::color::Xyz::new(1.0, 1.0, 1.0),
+    };
     let lab = LabD50::from_xyz(xyz);
     let rgb = lab_d50_to_srgb_unclamped(lab);
     let m = rgb.iter().cloned().fold(f64::MIN, f64::max).max(1e-6);
