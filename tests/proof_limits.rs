@@ -526,3 +526,67 @@ fn many_images_are_all_written_or_none_is() {
         listing(&maps2)
     );
 }
+
+/// A PNG chunk (PNG spec 5.3): length, type, data, CRC over type and data.
+fn png_chunk(out: &mut Vec<u8>, kind: &[u8; 4], data: &[u8]) {
+    out.extend_from_slice(&(data.len() as u32).to_be_bytes());
+    let mut typed = kind.to_vec();
+    typed.extend_from_slice(data);
+    out.extend_from_slice(&typed);
+    out.extend_from_slice(&crc32(&typed).to_be_bytes());
+}
+
+/// A 1 × 1 indexed-colour PNG (colour type 3, 8 bits) whose PLTE chunk has
+/// `plte` as its data, and one pixel of index 0. The image data is a zlib
+/// stream (RFC 1950) of one stored deflate block (RFC 1951 3.2.4) holding
+/// the filter byte and the index, so that nothing but the palette is odd.
+fn indexed_png(plte: &[u8]) -> Vec<u8> {
+    let mut b = b"\x89PNG\r\n\x1a\n".to_vec();
+    // IHDR: width, height, bit depth 8, colour type 3, compression, filter, interlace.
+    let mut ihdr = Vec::new();
+    ihdr.extend_from_slice(&1u32.to_be_bytes());
+    ihdr.extend_from_slice(&1u32.to_be_bytes());
+    ihdr.extend_from_slice(&[8, 3, 0, 0, 0]);
+    png_chunk(&mut b, b"IHDR", &ihdr);
+    png_chunk(&mut b, b"PLTE", plte);
+    let raw = [0u8, 0u8];
+    // Adler-32 (RFC 1950 8.2) of the raw bytes.
+    let (mut a, mut s2) = (1u32, 0u32);
+    for &x in &raw {
+        a = (a + u32::from(x)) % 65521;
+        s2 = (s2 + a) % 65521;
+    }
+    let mut z = vec![0x78, 0x01, 0x01, 0x02, 0x00, 0xfd, 0xff];
+    z.extend_from_slice(&raw);
+    z.extend_from_slice(&((s2 << 16) | a).to_be_bytes());
+    png_chunk(&mut b, b"IDAT", &z);
+    png_chunk(&mut b, b"IEND", &[]);
+    b
+}
+
+#[test]
+fn indexed_png_reads_when_its_palette_is_whole_entries() {
+    // The hand-built file is sound: one palette entry of (10, 20, 30).
+    let dir = tempfile::tempdir().unwrap();
+    let img = dir.path().join("indexed.png");
+    std::fs::write(&img, indexed_png(&[10, 20, 30])).unwrap();
+    let r = raster::read(&img).unwrap();
+    assert_eq!((r.info.width, r.info.height, r.info.channels), (1, 1, 3));
+    assert_eq!(r.color, vec![10, 20, 30]);
+}
+
+#[test]
+fn png_palette_that_is_not_whole_rgb_entries_is_refused() {
+    // PNG spec 11.2.3: a PLTE chunk length not divisible by 3 is an error.
+    // The PNG decoder takes such a palette as it is and then indexes past
+    // its end while expanding the pixels (a panic, found by the image fuzz
+    // target); it must be a one-line refusal instead.
+    for len in [4usize, 5, 767] {
+        let dir = tempfile::tempdir().unwrap();
+        let img = dir.path().join("odd-palette.png");
+        std::fs::write(&img, indexed_png(&vec![7u8; len])).unwrap();
+        assert_refused(&img, &[], &["PLTE", &format!("{len} bytes")]);
+        assert!(matches!(raster::read(&img), Err(RasterError::Decode { .. })));
+        assert!(matches!(raster::probe(&img), Err(RasterError::Decode { .. })));
+    }
+}

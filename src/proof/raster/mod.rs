@@ -359,6 +359,7 @@ fn open_decoder(path: &Path, limits: &DecodeLimits) -> Result<(FileKind, Box<dyn
             let be = |i: usize| u32::from_be_bytes([head[i], head[i + 1], head[i + 2], head[i + 3]]);
             limits.check(path, be(16), be(20))?;
         }
+        check_png_palette(path)?;
         reader.seek(SeekFrom::Start(0)).map_err(read_err(path))?;
     }
     let decoder: Box<dyn ImageDecoder> = match kind {
@@ -451,7 +452,7 @@ fn info_of(
     // The PNG decoder drops a profile chunk it cannot read (damaged, or over
     // its allowance once inflated) as if there were none; the pixels would
     // then be taken to be in the screen profile.
-    if kind == FileKind::Png && icc.is_none() && png_has_chunk_before_data(path, b"iCCP")? {
+    if kind == FileKind::Png && icc.is_none() && png_chunk_before_data(path, b"iCCP")?.is_some() {
         return Err(RasterError::Bounds {
             path: path_text(path),
             detail: format!(
@@ -471,9 +472,10 @@ fn info_of(
     })
 }
 
-/// Whether a PNG has a chunk of type `kind` before its image data, walking
-/// the chunk headers (PNG spec 5.3) without reading their contents.
-fn png_has_chunk_before_data(path: &Path, kind: &[u8; 4]) -> Result<bool, RasterError> {
+/// The data length of the first chunk of type `kind` before a PNG's image
+/// data, if there is one, walking the chunk headers (PNG spec 5.3) without
+/// reading their contents.
+fn png_chunk_before_data(path: &Path, kind: &[u8; 4]) -> Result<Option<u32>, RasterError> {
     let mut r = BufReader::new(File::open(path).map_err(read_err(path))?);
     r.seek(SeekFrom::Start(8)).map_err(read_err(path))?;
     let mut head = [0u8; 8];
@@ -481,14 +483,28 @@ fn png_has_chunk_before_data(path: &Path, kind: &[u8; 4]) -> Result<bool, Raster
         let len = u32::from_be_bytes([head[0], head[1], head[2], head[3]]);
         let ty = &head[4..8];
         if ty == kind {
-            return Ok(true);
+            return Ok(Some(len));
         }
         if ty == b"IDAT" || ty == b"IEND" {
             break;
         }
         r.seek_relative(i64::from(len) + 4).map_err(read_err(path))?;
     }
-    Ok(false)
+    Ok(None)
+}
+
+/// Refuses a PNG whose palette is not a whole number of RGB entries (PNG
+/// spec 11.2.3: "a chunk length not divisible by 3 is an error"). The PNG
+/// decoder keeps such a palette as it is and then reads past its end while
+/// expanding indexed pixels, which panics.
+fn check_png_palette(path: &Path) -> Result<(), RasterError> {
+    match png_chunk_before_data(path, b"PLTE")? {
+        Some(len) if len % 3 != 0 => Err(RasterError::Decode {
+            path: path_text(path),
+            detail: format!("its palette (PLTE chunk) is {len} bytes, not a whole number of 3-byte RGB entries"),
+        }),
+        _ => Ok(()),
+    }
 }
 
 /// Reads what an image holds without decoding its pixels, under the default
