@@ -56,8 +56,7 @@ pub enum Command {
     Plot(plot::PlotArgs),
     /// Propose the nearest palette that prints: inside the press gamut, classes kept apart, order kept.
     Repair(repair::RepairArgs),
-    /// Maintainers: rebuild a built-in press profile from its printing model.
-    #[command(hide = true)]
+    /// Build a press profile from a printer's measurement data (CGATS.17), with a report of its accuracy.
     BuildPress(profiles::BuildPressArgs),
 }
 
@@ -221,7 +220,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<Outcome, Error> {
         Command::Gamut(a) => gamut::run_gamut(a, out),
         Command::Plot(a) => plot::run_plot(a),
         Command::Repair(a) => repair::run_repair(a, out),
-        Command::BuildPress(a) => profiles::run_build_press(a),
+        Command::BuildPress(a) => profiles::run_build_press(a, out),
     }
 }
 

@@ -199,6 +199,13 @@ struct B2aTables {
 /// Deterministic: the inversion is per node and independent of the thread
 /// schedule, the header date is fixed and the platform field zeroed.
 pub fn build_icc(cond: &PrintCondition) -> Result<Vec<u8>, PressError> {
+    build_icc_dated(cond, PROFILE_DATE)
+}
+
+/// [`build_icc`] with `date` (year, month, day, hour, minute, second, UTC)
+/// as the header's creation date: for a profile built from a user's
+/// measurements, which is created when it is built.
+pub fn build_icc_dated(cond: &PrintCondition, date: [u16; 6]) -> Result<Vec<u8>, PressError> {
     let cap = cond.tac_percent() / 100.0;
     let mapper = Mapper::new(cond);
     let targets = b2a_targets();
@@ -217,7 +224,7 @@ pub fn build_icc(cond: &PrintCondition) -> Result<Vec<u8>, PressError> {
         saturation: table(Method::KeepChroma),
     };
     let raw = write_profile(cond, &tables)?;
-    let fixed = patch_header(raw)?;
+    let fixed = patch_header(raw, date)?;
     let with_id = add_profile_id(&fixed)?;
     verify(&with_id)?;
     Ok(with_id)
@@ -544,13 +551,13 @@ fn save(profile: &OwnedProfile) -> Result<Vec<u8>, PressError> {
     }
 }
 
-/// Fixed creation date (header bytes 24..36, a dateTimeNumber of ICC.1:2010) and
+/// The creation date (header bytes 24..36, a dateTimeNumber of ICC.1:2010) and
 /// platform 0 (bytes 40..44, "no primary platform").
-fn patch_header(mut bytes: Vec<u8>) -> Result<Vec<u8>, PressError> {
+fn patch_header(mut bytes: Vec<u8>, date: [u16; 6]) -> Result<Vec<u8>, PressError> {
     if bytes.len() < 128 {
         return Err(PressError::Verify("profile shorter than its header".into()));
     }
-    for (i, v) in PROFILE_DATE.iter().enumerate() {
+    for (i, v) in date.iter().enumerate() {
         bytes[24 + 2 * i..26 + 2 * i].copy_from_slice(&v.to_be_bytes());
     }
     bytes[40..44].fill(0);
@@ -634,8 +641,43 @@ fn verify(bytes: &[u8]) -> Result<(), PressError> {
     Ok(())
 }
 
+/// The UTC date and time of `unix_seconds` as an ICC dateTimeNumber's six
+/// fields, by the days-to-civil algorithm of the proleptic Gregorian
+/// calendar (H. Hinnant, "chrono-compatible low-level date algorithms").
+pub fn utc_date(unix_seconds: u64) -> [u16; 6] {
+    let days = (unix_seconds / 86_400) as i64;
+    let secs = unix_seconds % 86_400;
+    let z = days + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z - era * 146_097;
+    let yoe = (doe - doe / 1_460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let day = doy - (153 * mp + 2) / 5 + 1;
+    let month = if mp < 10 { mp + 3 } else { mp - 9 };
+    let year = yoe + era * 400 + i64::from(month <= 2);
+    [
+        year.clamp(0, 9999) as u16,
+        month as u16,
+        day as u16,
+        (secs / 3_600) as u16,
+        (secs / 60 % 60) as u16,
+        (secs % 60) as u16,
+    ]
+}
+
 #[cfg(test)]
 mod tests {
+    #[test]
+    fn utc_dates_match_an_independent_calendar() {
+        // Expected values from Python's datetime.fromtimestamp(t, UTC).
+        use super::utc_date;
+        assert_eq!(utc_date(0), [1970, 1, 1, 0, 0, 0]);
+        assert_eq!(utc_date(951_782_400), [2000, 2, 29, 0, 0, 0]);
+        assert_eq!(utc_date(1_796_268_345), [2026, 12, 3, 3, 25, 45]);
+        assert_eq!(utc_date(4_102_444_799), [2099, 12, 31, 23, 59, 59]);
+    }
+
     use super::*;
 
     #[test]

@@ -5,11 +5,14 @@
 //! [`crate::icc::builtin`]; this module depends on `icc`, never the reverse.
 
 pub mod cgats;
+pub mod correction;
+pub mod fit;
 pub mod icc_writer;
 pub mod invert;
 pub mod mapping;
 pub mod model;
 pub mod spec;
+pub mod tone;
 
 pub use icc_writer::build_icc;
 pub use invert::InkSolution;

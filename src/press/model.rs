@@ -11,7 +11,11 @@
 //!   or ICC media-relative (XYZ scaled per channel by D50 / paper: the
 //!   media-relative colorimetry of ICC.1:2010).
 
+use std::sync::Arc;
+
+use super::correction::Correction;
 use super::spec::{newsprint_coldset_spec, offset_coated_spec, offset_uncoated_spec, PressSpec};
+use super::tone::MonotoneCurve;
 use super::PressError;
 use crate::color::{LabD50, Xyz, D50};
 
@@ -25,10 +29,16 @@ pub const YELLOW: usize = 2;
 pub const BLACK: usize = 3;
 
 /// A press condition ready to evaluate: the spec plus the Neugebauer
-/// primaries derived from it.
+/// primaries derived from it, or, for a condition fitted to measurements,
+/// the measured primaries, measured tone curves and a smooth correction.
 #[derive(Clone, Debug)]
 pub struct PrintCondition {
     spec: PressSpec,
+    /// Measured effective-coverage curves per ink (fractions in, fractions
+    /// out); `None` for the designed curves of `spec.tvi50`.
+    tone: Option<Arc<[MonotoneCurve; 4]>>,
+    /// A media-relative CIELAB correction added to the model's output.
+    correction: Option<Arc<Correction>>,
     /// Absolute XYZ of the 16 Neugebauer primaries; index bit 0 = C,
     /// bit 1 = M, bit 2 = Y, bit 3 = K.
     primaries: [[f64; 3]; 16],
@@ -185,6 +195,36 @@ impl PrintCondition {
                 };
             }
         }
+        Self::from_primaries(spec, p, None)
+    }
+
+    /// A condition from measured primaries (absolute XYZ, index bits as in
+    /// [`PrintCondition::primaries_xyz`]) and measured effective-coverage
+    /// curves, without correction; `spec.tvi50` is then only a summary.
+    /// The caller (the fit) has checked that every primary is positive and
+    /// every ink darkens paper in its measuring channel.
+    pub(crate) fn measured(spec: PressSpec, primaries: [[f64; 3]; 16], tone: [MonotoneCurve; 4]) -> Self {
+        Self::from_primaries(spec, primaries, Some(Arc::new(tone)))
+    }
+
+    /// The same condition with a media-relative CIELAB correction added.
+    pub(crate) fn with_correction(mut self, correction: Correction) -> Self {
+        self.correction = Some(Arc::new(correction));
+        self
+    }
+
+    /// The measured tone curves, if the condition was fitted.
+    pub fn tone_curves(&self) -> Option<&[MonotoneCurve; 4]> {
+        self.tone.as_deref()
+    }
+
+    /// The correction, if the condition was fitted with one.
+    pub fn correction(&self) -> Option<&Correction> {
+        self.correction.as_deref()
+    }
+
+    fn from_primaries(spec: PressSpec, p: [[f64; 3]; 16], tone: Option<Arc<[MonotoneCurve; 4]>>) -> Self {
+        let paper = p[0];
         let inv_n = 1.0 / spec.yule_nielsen_n;
         let mut root = [[0.0; 3]; 16];
         for (r, q) in root.iter_mut().zip(p.iter()) {
@@ -210,6 +250,8 @@ impl PrintCondition {
         }
         PrintCondition {
             spec,
+            tone,
+            correction: None,
             primaries: p,
             primaries_root: root,
             paper,
@@ -277,6 +319,9 @@ impl PrintCondition {
             return 0.0;
         };
         let a = clamp01(a);
+        if let Some(t) = &self.tone {
+            return clamp01(t[ink].eval(a).0);
+        }
         let tv = designed_tone_value(a, self.spec.tvi50[ink]);
         let rt = ch.paper - tv * (ch.paper - ch.solid);
         let root = rt.max(0.0).powf(1.0 / self.spec.yule_nielsen_n);
@@ -294,6 +339,19 @@ impl PrintCondition {
     /// spectral reflectances is an approximation, common practice when only
     /// colorimetric aims of the primaries are known.
     pub fn xyz_absolute(&self, cmyk: [f64; 4]) -> Xyz {
+        if self.correction.is_none() {
+            return self.model_xyz_absolute(cmyk);
+        }
+        let r = self.xyz_relative(cmyk);
+        Xyz::new(
+            r.x * self.paper[0] / D50.x,
+            r.y * self.paper[1] / D50.y,
+            r.z * self.paper[2] / D50.z,
+        )
+    }
+
+    /// The printing model alone (no correction), absolute XYZ.
+    fn model_xyz_absolute(&self, cmyk: [f64; 4]) -> Xyz {
         let e = [
             self.effective_coverage(CYAN, cmyk[0]),
             self.effective_coverage(MAGENTA, cmyk[1]),
@@ -319,7 +377,14 @@ impl PrintCondition {
     /// Media-relative XYZ (ICC.1:2010 media-relative colorimetry): absolute XYZ scaled per
     /// channel by D50 / paper, so paper maps to the PCS white D50.
     pub fn xyz_relative(&self, cmyk: [f64; 4]) -> Xyz {
-        let x = self.xyz_absolute(cmyk);
+        if self.correction.is_some() {
+            return self.lab_relative(cmyk).to_xyz();
+        }
+        self.model_xyz_relative(cmyk)
+    }
+
+    fn model_xyz_relative(&self, cmyk: [f64; 4]) -> Xyz {
+        let x = self.model_xyz_absolute(cmyk);
         Xyz::new(
             x.x * D50.x / self.paper[0],
             x.y * D50.y / self.paper[1],
@@ -336,7 +401,14 @@ impl PrintCondition {
     /// ICC media-relative CIELAB of the print of `cmyk` (fractions 0..1):
     /// paper is L* = 100, a* = b* = 0.
     pub fn lab_relative(&self, cmyk: [f64; 4]) -> LabD50 {
-        LabD50::from_xyz(self.xyz_relative(cmyk))
+        let lab = LabD50::from_xyz(self.model_xyz_relative(cmyk));
+        match &self.correction {
+            None => lab,
+            Some(c) => {
+                let d = c.eval(cmyk.map(clamp01));
+                LabD50::new(lab.l + d[0], lab.a + d[1], lab.b + d[2])
+            }
+        }
     }
 
     /// Media-relative CIELAB of `cmyk` together with its Jacobian
@@ -357,6 +429,12 @@ impl PrintCondition {
             let ch = self.ink_channel[i];
             let inside = (0.0..=1.0).contains(&cmyk[i]);
             let a = clamp01(cmyk[i]);
+            if let Some(t) = &self.tone {
+                let (v, d) = t[i].eval(a);
+                e[i] = clamp01(v);
+                de[i] = if inside { d } else { 0.0 };
+                continue;
+            }
             let t50 = self.spec.tvi50[i];
             let tv = designed_tone_value(a, t50);
             let dtv = 1.0 + 4.0 * t50 * (1.0 - 2.0 * a);
@@ -411,12 +489,26 @@ impl PrintCondition {
                 dfv[ch][i] = df * dr_ds * ds[ch][i] * de[i] / self.paper[ch];
             }
         }
-        let lab = LabD50::new(116.0 * fv[1] - 16.0, 500.0 * (fv[0] - fv[1]), 200.0 * (fv[1] - fv[2]));
+        let mut lab = LabD50::new(116.0 * fv[1] - 16.0, 500.0 * (fv[0] - fv[1]), 200.0 * (fv[1] - fv[2]));
         let mut jac = [[0.0; 4]; 3];
         for i in 0..4 {
             jac[0][i] = 116.0 * dfv[1][i];
             jac[1][i] = 500.0 * (dfv[0][i] - dfv[1][i]);
             jac[2][i] = 200.0 * (dfv[1][i] - dfv[2][i]);
+        }
+        if let Some(c) = &self.correction {
+            // The correction reads clamped inks; along an ink outside 0..1
+            // its gradient is zero, as the model's is.
+            let clamped = cmyk.map(clamp01);
+            let (d, dj) = c.eval_with_gradient(clamped);
+            lab = LabD50::new(lab.l + d[0], lab.a + d[1], lab.b + d[2]);
+            for row in 0..3 {
+                for i in 0..4 {
+                    if (0.0..=1.0).contains(&cmyk[i]) {
+                        jac[row][i] += dj[row][i];
+                    }
+                }
+            }
         }
         (lab, jac)
     }

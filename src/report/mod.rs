@@ -2,6 +2,7 @@
 //! Every renderer writes to `impl Write` and is deterministic (fixed
 //! precision, stable order).
 
+pub mod fit;
 pub mod gamut;
 pub mod proof;
 pub mod repair;
