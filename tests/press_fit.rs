@@ -602,3 +602,121 @@ fn xyz_fields_fit_the_same_condition_as_lab_fields() {
     assert!((by_lab.cross_validated.mean - by_xyz.cross_validated.mean).abs() < 0.002);
     assert!((by_lab.on_data.max - by_xyz.on_data.max).abs() < 0.005);
 }
+
+/// A spectral press: reflectance spectra of paper and the four solids
+/// (invented print-like shapes at 10 nm, 380–730 nm), overprints by the
+/// product of their transmittances over a 3 % surface reflection, and
+/// spectral Yule–Nielsen Neugebauer with n = 1.8 on designed tone curves.
+struct SpectralPress {
+    primaries: Vec<Vec<f64>>,
+}
+
+impl SpectralPress {
+    const NM: std::ops::RangeInclusive<u32> = 380..=730;
+
+    fn new() -> Self {
+        let nm: Vec<f64> = Self::NM.step_by(10).map(f64::from).collect();
+        let logistic = |x: f64, c: f64, w: f64| 1.0 / (1.0 + (-(x - c) / w).exp());
+        let gauss = |x: f64, c: f64, w: f64| (-((x - c) / w).powi(2)).exp();
+        let paper: Vec<f64> = nm.iter().map(|&w| 0.87 - 0.05 * gauss(w, 400.0, 30.0)).collect();
+        let solids: [Vec<f64>; 4] = [
+            nm.iter().map(|&w| 0.05 + 0.55 * gauss(w, 480.0, 50.0)).collect(),
+            nm.iter().map(|&w| 0.06 + 0.8 * (1.0 - gauss(w, 540.0, 40.0))).collect(),
+            nm.iter().map(|&w| 0.04 + 0.84 * logistic(w, 490.0, 12.0)).collect(),
+            nm.iter().map(|_| 0.02).collect(),
+        ];
+        let surface = 0.03;
+        let mut primaries = Vec::new();
+        for j in 0..16usize {
+            let r: Vec<f64> = (0..nm.len())
+                .map(|b| {
+                    let mut t = (paper[b] - surface).max(1e-4);
+                    for (i, s) in solids.iter().enumerate() {
+                        if j & (1 << i) != 0 {
+                            t *= ((s[b] - surface) / (paper[b] - surface)).max(1e-4);
+                        }
+                    }
+                    surface + t
+                })
+                .collect();
+            primaries.push(r);
+        }
+        SpectralPress { primaries }
+    }
+
+    fn reflectance(&self, cmyk: [f64; 4]) -> Vec<f64> {
+        let n = 1.8;
+        let e = cmyk.map(|a| a + 0.6 * a * (1.0 - a));
+        (0..self.primaries[0].len())
+            .map(|b| {
+                let mut s = 0.0;
+                for (j, p) in self.primaries.iter().enumerate() {
+                    let mut w = 1.0;
+                    for (i, ei) in e.iter().enumerate() {
+                        w *= if j & (1 << i) != 0 { *ei } else { 1.0 - ei };
+                    }
+                    s += w * p[b].powf(1.0 / n);
+                }
+                s.powf(n)
+            })
+            .collect()
+    }
+}
+
+#[test]
+fn spectral_measurements_build_a_profile_that_matches_them() {
+    // The spectra become CIELAB by inkfit's own ISO 13655 summation, which
+    // tests/reference_color.rs checks against colour-science; this checks
+    // the path from spectral data to a working profile, in percent.
+    let press = SpectralPress::new();
+    let nm: Vec<u32> = SpectralPress::NM.step_by(10).collect();
+    let mut rng = Rng(21);
+    let pts = chart(&mut rng);
+    let mut text = format!(
+        "CGATS.17\nBEGIN_DATA_FORMAT\nSAMPLE_ID CMYK_C CMYK_M CMYK_Y CMYK_K {}\nEND_DATA_FORMAT\nBEGIN_DATA\n",
+        nm.iter()
+            .map(|w| format!("SPECTRAL_NM{w}"))
+            .collect::<Vec<_>>()
+            .join(" ")
+    );
+    for (i, c) in pts.iter().enumerate() {
+        let r = press.reflectance(c.map(|v| v / 100.0));
+        let v: Vec<String> = r.iter().map(|x| format!("{:.3}", x * 100.0)).collect();
+        writeln!(text, "{} {} {} {} {} {}", i + 1, c[0], c[1], c[2], c[3], v.join(" ")).unwrap();
+    }
+    text.push_str("END_DATA\n");
+    let dir = tempfile::tempdir().unwrap();
+    let data = dir.path().join("spectral.txt");
+    std::fs::write(&data, &text).unwrap();
+    let out = dir.path().join("spectral.icc");
+    let o = run(&[
+        "build-press",
+        "--from",
+        data.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+        "--json",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let report = json(&o);
+    assert!(report["cross_validated"]["p95"].as_f64().unwrap() < 1.0, "{report}");
+    // The profile against the press's own spectra at random inks.
+    let to_lab = |r: &[f64]| inkfit::color::spectral::reflectance_to_lab(380, 10, r);
+    let paper = to_lab(&press.reflectance([0.0; 4])).to_xyz();
+    let mut probes = Vec::new();
+    while probes.len() < 1_000 {
+        let c = [0, 1, 2, 3].map(|_| rng.next() * 100.0);
+        if c.iter().sum::<f64>() <= 300.0 {
+            probes.push(c);
+        }
+    }
+    let got = profile_lab(&out, &probes);
+    let mut sum = 0.0;
+    for (c, g) in probes.iter().zip(&got) {
+        let x = to_lab(&press.reflectance(c.map(|v| v / 100.0))).to_xyz();
+        let rel = xyz_to_lab([x.x, x.y, x.z], [paper.x, paper.y, paper.z]);
+        sum += de00(rel, *g);
+    }
+    let mean = sum / probes.len() as f64;
+    assert!(mean < 0.5, "mean ΔE00 {mean}");
+}

@@ -764,3 +764,27 @@ fn parser_never_panics_on_garbage() {
         }
     }
 }
+
+// ------------------------------------------------------------------ spectra
+
+#[test]
+fn reflectance_spectra_match_colour_science() {
+    // tests/data/spectral_d50_colour_science.csv: spectra at 10 nm,
+    // 380–730 nm, with CIELAB D50 2° computed by colour-science 0.4.6 (the
+    // calls are in the file's header).
+    let data = include_str!("data/spectral_d50_colour_science.csv");
+    let table = rows(data);
+    assert!(table.len() >= 8, "{} rows", table.len());
+    for r in &table {
+        let spectrum: Vec<f64> = r[4..].iter().map(|v| num(v)).collect();
+        assert_eq!(spectrum.len(), 36);
+        let got = inkfit::color::spectral::reflectance_to_lab(380, 10, &spectrum);
+        let want = [num(&r[1]), num(&r[2]), num(&r[3])];
+        assert!(
+            close3([got.l, got.a, got.b], want, 0.01),
+            "{}: {:?} vs colour-science {want:?}",
+            r[0],
+            [got.l, got.a, got.b]
+        );
+    }
+}

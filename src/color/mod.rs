@@ -12,6 +12,7 @@ pub mod css;
 pub mod cvd;
 pub mod delta;
 pub mod spaces;
+pub mod spectral;
 
 use serde::Serialize;
 

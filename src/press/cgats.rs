@@ -11,8 +11,12 @@
 //! - keyword lines (`ORIGINATOR "…"`, `NUMBER_OF_SETS 1617`, declared
 //!   keywords), `#` comments outside quoted strings, tabs or spaces between
 //!   values, CRLF or LF line ends and a byte order mark;
-//! - other fields (spectral bands, densities, names) are kept out of the
-//!   way: they are skipped, not refused.
+//! - without LAB or XYZ fields, reflectance spectra in `SPECTRAL_NM380` …
+//!   `SPECTRAL_NM730` (5, 10 or 20 nm bands covering at least 400–700 nm,
+//!   as fractions or in percent), turned into CIELAB D50 2° as ISO 13655
+//!   asks ([`crate::color::spectral`]);
+//! - other fields (densities, names, spectra beside LAB) are kept out of
+//!   the way: they are skipped, not refused.
 //!
 //! Patches with the same CMYK (to 0.01 %) are averaged in CIELAB, and the
 //! spread of each group is kept so outliers among repeats can be reported.
@@ -88,6 +92,10 @@ pub enum ColourFields {
     Lab,
     /// `XYZ_X`, `XYZ_Y`, `XYZ_Z` (Y = 100 for the perfect diffuser).
     Xyz,
+    /// `SPECTRAL_NM380` … `SPECTRAL_NM730` (any even 5, 10 or 20 nm steps
+    /// covering 400–700 nm), reflectance as a fraction or in percent,
+    /// turned into CIELAB D50 2° ([`crate::color::spectral`]).
+    Spectral,
 }
 
 /// One measured ink combination, averaged over its repeats.
@@ -243,20 +251,33 @@ impl Measurements {
         };
         let lab_cols = all(["LAB_L", "LAB_A", "LAB_B"].map(col));
         let xyz_cols = all(["XYZ_X", "XYZ_Y", "XYZ_Z"].map(col));
+        let bands = spectral_bands(&fields);
         let (colour_fields, colour_cols) = match (lab_cols, xyz_cols) {
-            (Some(c), _) => (ColourFields::Lab, c),
-            (None, Some(c)) => (ColourFields::Xyz, c),
+            (Some(c), _) => (ColourFields::Lab, Some(c)),
+            (None, Some(c)) => (ColourFields::Xyz, Some(c)),
+            (None, None) if !bands.is_empty() => {
+                let nm: Vec<u32> = bands.iter().map(|b| b.0).collect();
+                crate::color::spectral::check_bands(&nm).map_err(|e| missing(file, &e.to_string()))?;
+                (ColourFields::Spectral, None)
+            }
             (None, None) => {
-                let spectral = fields.iter().any(|f| f.starts_with("SPECTRAL_"));
                 return Err(missing(
                     file,
-                    if spectral {
-                        "the data has spectral fields only; inkfit reads LAB_L/A/B or XYZ_X/Y/Z (spectral data is not read yet)"
-                    } else {
-                        "the data format lacks LAB_L, LAB_A, LAB_B (or XYZ_X, XYZ_Y, XYZ_Z)"
-                    },
+                    "the data format lacks LAB_L, LAB_A, LAB_B (or XYZ_X, XYZ_Y, XYZ_Z, or SPECTRAL_NM bands)",
                 ));
             }
+        };
+        // Reflectance in percent when any value is above 1.5 (a print
+        // reflects at most about 100 % even with optical brighteners).
+        let percent = colour_fields == ColourFields::Spectral
+            && rows.iter().any(|(_, t)| {
+                bands
+                    .iter()
+                    .any(|&(_, c)| t[c].parse::<f64>().is_ok_and(|v| v.is_finite() && v > 1.5))
+            });
+        let (first_nm, step_nm) = match bands.as_slice() {
+            [a, b, ..] => (a.0, b.0 - a.0),
+            _ => (0, 0),
         };
         let id_col = col("SAMPLE_ID");
         let mut groups: BTreeMap<[i64; 4], usize> = BTreeMap::new();
@@ -275,20 +296,19 @@ impl Measurements {
                     return Err(syntax(*line, format!("{name} {v} lies outside 0..100 %")));
                 }
             }
-            let [a, b, z] = colour_cols.map(|c| num(c, &fields[c]));
-            let (a, b, z) = (a?, b?, z?);
-            let lab = match colour_fields {
-                ColourFields::Lab => {
-                    if !(0.0..=101.0).contains(&a) {
-                        return Err(syntax(*line, format!("LAB_L {a} lies outside 0..100")));
+            let lab = match colour_cols {
+                None => {
+                    let mut r = Vec::with_capacity(bands.len());
+                    for &(_, c) in &bands {
+                        let v = num(c, &fields[c])?;
+                        r.push(if percent { v / 100.0 } else { v });
                     }
-                    LabD50::new(a, b, z)
+                    crate::color::spectral::reflectance_to_lab(first_nm, step_nm, &r)
                 }
-                ColourFields::Xyz => {
-                    if a < 0.0 || b < 0.0 || z < 0.0 {
-                        return Err(syntax(*line, "a negative tristimulus value".into()));
-                    }
-                    LabD50::from_xyz(Xyz::new(a / 100.0, b / 100.0, z / 100.0))
+                Some(cols) => {
+                    let [a, b, z] = cols.map(|c| num(c, &fields[c]));
+                    let (a, b, z) = (a?, b?, z?);
+                    colour_of(colour_fields, a, b, z).map_err(|d| syntax(*line, d))?
                 }
             };
             let key = cmyk.map(|v| (v * 100.0).round() as i64);
@@ -355,6 +375,44 @@ enum State {
     Format(Vec<String>),
     Data,
     Done,
+}
+
+/// The CIELAB of one row's LAB or XYZ fields, or what is wrong with them.
+fn colour_of(fields: ColourFields, a: f64, b: f64, z: f64) -> Result<LabD50, String> {
+    match fields {
+        ColourFields::Xyz => {
+            if a < 0.0 || b < 0.0 || z < 0.0 {
+                return Err("a negative tristimulus value".into());
+            }
+            Ok(LabD50::from_xyz(Xyz::new(a / 100.0, b / 100.0, z / 100.0)))
+        }
+        _ => {
+            if !(0.0..=101.0).contains(&a) {
+                return Err(format!("LAB_L {a} lies outside 0..100"));
+            }
+            Ok(LabD50::new(a, b, z))
+        }
+    }
+}
+
+/// The spectral fields (`SPECTRAL_NM380`, also written `SPECTRAL_NM_380`)
+/// as (wavelength in nm, column), by wavelength.
+fn spectral_bands(fields: &[String]) -> Vec<(u32, usize)> {
+    let mut v: Vec<(u32, usize)> = fields
+        .iter()
+        .enumerate()
+        .filter_map(|(c, f)| {
+            let rest = f.strip_prefix("SPECTRAL_NM")?;
+            let digits = rest.strip_prefix('_').unwrap_or(rest);
+            digits
+                .parse::<u32>()
+                .ok()
+                .filter(|nm| (300..=830).contains(nm))
+                .map(|nm| (nm, c))
+        })
+        .collect();
+    v.sort_unstable();
+    v
 }
 
 fn missing(file: &str, detail: &str) -> CgatsError {
@@ -499,5 +557,62 @@ END_DATA\r\n";
         assert_eq!(bad.len(), 1);
         assert_eq!(bad[0].id, "1");
         assert!(m.inconsistent_repeats(10.0).is_empty());
+    }
+
+    /// A data file with spectral bands `nm` and one row per spectrum.
+    fn spectral_file(nm: &[u32], rows: &[Vec<f64>], with_underscore: bool) -> String {
+        let names: Vec<String> = nm
+            .iter()
+            .map(|w| {
+                if with_underscore {
+                    format!("SPECTRAL_NM_{w}")
+                } else {
+                    format!("SPECTRAL_NM{w}")
+                }
+            })
+            .collect();
+        let mut t = format!(
+            "CGATS.17\nBEGIN_DATA_FORMAT\nSAMPLE_ID CMYK_C CMYK_M CMYK_Y CMYK_K {}\nEND_DATA_FORMAT\nBEGIN_DATA\n",
+            names.join(" ")
+        );
+        for (i, r) in rows.iter().enumerate() {
+            let v: Vec<String> = r.iter().map(|x| format!("{x}")).collect();
+            t.push_str(&format!("{} {} 0 0 0 {}\n", i + 1, i * 10, v.join(" ")));
+        }
+        t + "END_DATA\n"
+    }
+
+    #[test]
+    fn spectral_data_becomes_cielab_in_fractions_or_percent() {
+        let nm: Vec<u32> = (380..=730).step_by(10).collect();
+        let flat: Vec<f64> = vec![0.5; nm.len()];
+        let ramp: Vec<f64> = (0..nm.len()).map(|i| 0.1 + 0.02 * i as f64).collect();
+        let a = Measurements::parse("f.txt", &spectral_file(&nm, &[flat.clone(), ramp.clone()], false)).unwrap();
+        assert_eq!(a.colour_fields, ColourFields::Spectral);
+        // A flat 50 % reflector: neutral, L* = 116 · 0.5^(1/3) − 16 (CIE 015:2018, 8.2.1).
+        let p = &a.patches[0].lab;
+        assert!((p.l - (116.0 * 0.5f64.cbrt() - 16.0)).abs() < 1e-9 && p.a.abs() < 1e-9 && p.b.abs() < 1e-9);
+        // The same spectra in percent, with the other way of naming bands.
+        let pct = |r: &Vec<f64>| r.iter().map(|v| v * 100.0).collect::<Vec<f64>>();
+        let b = Measurements::parse("p.txt", &spectral_file(&nm, &[pct(&flat), pct(&ramp)], true)).unwrap();
+        for (x, y) in a.patches.iter().zip(&b.patches) {
+            assert!(crate::color::delta::delta_e00(x.lab, y.lab) < 1e-9);
+        }
+        // A red-rising ramp is yellowish red: a* > 0, b* > 0.
+        let r = &a.patches[1].lab;
+        assert!(r.a > 0.0 && r.b > 0.0, "{r:?}");
+    }
+
+    #[test]
+    fn spectral_bands_must_cover_the_visible() {
+        let nm: Vec<u32> = (420..=700).step_by(10).collect();
+        let e = Measurements::parse("n.txt", &spectral_file(&nm, &[vec![0.5; nm.len()]], false)).unwrap_err();
+        assert_eq!(
+            e.to_string(),
+            "n.txt: spectral bands must cover at least 400 to 700 nm (they cover 420 to 700 nm)"
+        );
+        let uneven = [380, 390, 410, 420];
+        let e = Measurements::parse("u.txt", &spectral_file(&uneven, &[vec![0.5; 4]], false)).unwrap_err();
+        assert!(e.to_string().contains("evenly spaced"), "{e}");
     }
 }
