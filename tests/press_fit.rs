@@ -358,6 +358,61 @@ fn fitted_profile_agrees_with_the_press_it_was_measured_on() {
     let (v_press, v_fit) = (voxel_volume(&truth), voxel_volume(&profile_lab(&out, &domain)));
     println!("volume: press {v_press:.0}, fitted {v_fit:.0}");
     assert!((v_fit / v_press - 1.0).abs() <= 0.02, "volumes {v_fit} vs {v_press}");
+
+    // Round trip through lcms2: the press's own colours (printable by
+    // construction) → B2A1 → CMYK → A2B1 come back, within the ink limit.
+    let targets: Vec<[f64; 3]> = probes[..1_000]
+        .iter()
+        .map(|c| press.lab_relative(c.map(|v| v / 100.0)))
+        .collect();
+    let p = Profile::new_file(&out).unwrap();
+    let lab = Profile::new_lab4_context(lcms2::GlobalContext::new(), &Default::default()).unwrap();
+    let to_cmyk: Transform<[f64; 3], [f64; 4]> = Transform::new(
+        &lab,
+        PixelFormat::Lab_DBL,
+        &p,
+        PixelFormat::CMYK_DBL,
+        Intent::RelativeColorimetric,
+    )
+    .unwrap();
+    let mut cmyk = vec![[0.0; 4]; targets.len()];
+    to_cmyk.transform_pixels(&targets, &mut cmyk);
+    let back = profile_lab(&out, &cmyk);
+    let mut trip: Vec<f64> = targets.iter().zip(&back).map(|(t, b)| de00(*t, *b)).collect();
+    trip.sort_by(f64::total_cmp);
+    let trip_p95 = trip[949];
+    println!("round trip: p95 {trip_p95:.3}, max {:.3}", trip[999]);
+    assert!(trip_p95 < 1.0, "round trip p95 {trip_p95}");
+    let heaviest = cmyk.iter().map(|c| c.iter().sum::<f64>()).fold(0.0, f64::max);
+    assert!(heaviest <= 320.0 + 0.5, "ink {heaviest} % over the 320 % limit");
+
+    // The profile serves every command like any other press profile.
+    let o = out.to_str().unwrap();
+    let checked = run(&["check", &demo("landuse.csv"), "--press", o, "--json"]);
+    assert_eq!(checked.status.code(), Some(0), "{}", stderr(&checked));
+    assert!(json(&checked)["entries"].as_array().is_some_and(|e| !e.is_empty()));
+    let gamut = run(&["gamut", "offset-coated", o, "--json"]);
+    assert_eq!(gamut.status.code(), Some(0), "{}", stderr(&gamut));
+    let inspected = run(&["inspect", o, "--json"]);
+    assert_eq!(inspected.status.code(), Some(0), "{}", stderr(&inspected));
+    let inspected = json(&inspected);
+    assert_eq!(inspected["class"], "prtr", "{inspected}");
+    let max_ink = inspected["max_ink"].as_f64().unwrap_or(0.0);
+    assert!((max_ink - 320.0).abs() < 1.0, "max ink {max_ink}");
+    let img = dir.path().join("sheet.png");
+    let px: Vec<u8> = (0..32 * 24 * 3).map(|i| (i * 37 % 256) as u8).collect();
+    image::save_buffer(&img, &px, 32, 24, image::ColorType::Rgb8).unwrap();
+    let proofs = dir.path().join("proofs");
+    let proofed = run(&[
+        "proof",
+        img.to_str().unwrap(),
+        "--press",
+        o,
+        "--out",
+        proofs.to_str().unwrap(),
+    ]);
+    assert_eq!(proofed.status.code(), Some(0), "{}", stderr(&proofed));
+    assert!(!listing(&proofs).is_empty());
 }
 
 /// The demo's measurement file is this reference press's chart (demo data:
@@ -466,6 +521,9 @@ fn bad_measurement_data_is_refused_and_no_profile_is_written() {
         &[],
         &["2 tint value(s) of yellow alone", "at least 3"],
     );
+    // A missing field.
+    let no_black = good.replacen("\tCMYK_K\t", "\tINK_K\t", 1);
+    assert_build_refused(dir.path(), "no-black.txt", &no_black, &[], &["CMYK_K"]);
     // A malformed row names its line.
     let bad_row = good.replacen("\r\n3\t7\t0\t0\t0\t", "\r\n3\t7\tseven\t0\t0\t", 1);
     assert_build_refused(dir.path(), "bad-row.txt", &bad_row, &[], &["bad-row.txt:13"]);

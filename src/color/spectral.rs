@@ -150,6 +150,20 @@ mod tests {
     }
 
     #[test]
+    fn the_perfect_reflector_is_the_white() {
+        // CIE 015:2018, 8.2.1: the perfect reflecting diffuser has L* 100,
+        // a* = b* = 0 under the illuminant its white is computed for, for
+        // any spacing of the bands.
+        for (step, n) in [(5u32, 71usize), (10, 36), (20, 18)] {
+            let lab = reflectance_to_lab(380, step, &vec![1.0; n]);
+            assert!(
+                (lab.l - 100.0).abs() < 1e-9 && lab.a.abs() < 1e-9 && lab.b.abs() < 1e-9,
+                "{step}: {lab:?}"
+            );
+        }
+    }
+
+    #[test]
     fn a_flat_spectrum_is_neutral() {
         // A spectrally flat 50 % reflector is neutral (a* = b* = 0) with
         // L* = 116 · 0.5^(1/3) − 16 (CIE 015:2018, 8.2.1).
