@@ -645,9 +645,11 @@ fn fails_with(input: &str, needle: &str) {
 
 #[test]
 fn error_unknown_or_empty() {
-    let forms = "expected #rgb, #rrggbb, rgb(), hsl(), lab(), lch(), oklab(), oklch(), color(srgb|display-p3|rec2020 …) or device-cmyk()";
+    let forms = "expected a CSS colour name, #rgb, #rrggbb, rgb(), hsl(), lab(), lch(), oklab(), oklch(), color(srgb|display-p3|rec2020 …) or device-cmyk()";
     fails_with("", forms);
-    fails_with("red", forms);
+    fails_with("reddish", "\"reddish\" is not a CSS colour name");
+    fails_with("transparent", "transparency is not supported");
+    fails_with("currentColor", "currentColor");
     fails_with("hwb(0 0% 0%)", "unknown function hwb()");
     fails_with("(1 2 3)", forms);
 }
@@ -786,5 +788,28 @@ fn reflectance_spectra_match_colour_science() {
             r[0],
             [got.l, got.a, got.b]
         );
+    }
+}
+
+// ------------------------------------------------------------------ named colours
+
+#[test]
+fn css_named_colours_match_the_palette_crate() {
+    // The 148 named colours of CSS Color 4, 6.1, against the independent
+    // table of the palette crate (palette::named): the same names, the
+    // same sRGB bytes.
+    let ours: Vec<&str> = inkfit::color::named::names().collect();
+    let mut theirs: Vec<&str> = palette::named::names().collect();
+    theirs.sort_unstable();
+    assert_eq!(ours, theirs);
+    for name in ours {
+        let want = palette::named::from_str(name).unwrap();
+        let got = inkfit::color::named::named_color(name).unwrap();
+        assert_eq!(got, [want.red, want.green, want.blue], "{name}");
+        // And parse_color reads the name as that sRGB colour.
+        let ColorInput::ScreenRgb(v) = parse_color(&name.to_ascii_uppercase()).unwrap() else {
+            panic!("{name} is not screen RGB");
+        };
+        assert_eq!(v.map(|x| (x * 255.0).round() as u8), got, "{name}");
     }
 }

@@ -262,7 +262,10 @@ pub(super) fn busy(wanted: bool, message: String) -> indicatif::ProgressBar {
     if !wanted || !std::io::stderr().is_terminal() {
         return indicatif::ProgressBar::hidden();
     }
-    let bar = indicatif::ProgressBar::new_spinner().with_message(message);
+    // Cleared also when an error drops it, so the error stays one line.
+    let bar = indicatif::ProgressBar::new_spinner()
+        .with_message(message)
+        .with_finish(indicatif::ProgressFinish::AndClear);
     bar.enable_steady_tick(std::time::Duration::from_millis(120));
     bar
 }

@@ -125,12 +125,23 @@ pub(super) fn run_build_press(a: BuildPressArgs, out: &mut dyn Write) -> Result<
         black,
         folds: usize::from(a.folds),
     };
+    // Fitting takes seconds and the tables tens of seconds: a spinner on a terminal.
+    let spinner = super::busy(
+        true,
+        format!(
+            "fitting {} patches with {}-fold cross-validation",
+            measurements.patches.len(),
+            opts.folds
+        ),
+    );
     let (cond, fit_report) = fit(&measurements, &opts)?;
+    spinner.set_message("building the profile's tables for three intents");
     let now = std::time::SystemTime::now()
         .duration_since(std::time::UNIX_EPOCH)
         .map(|d| d.as_secs())
         .unwrap_or(0);
     let bytes = crate::press::icc_writer::build_icc_dated(&cond, crate::press::icc_writer::utc_date(now))?;
+    spinner.finish_and_clear();
     outputs.stage_bytes(&a.out, &bytes)?;
     outputs.commit()?;
     if a.json {

@@ -38,7 +38,7 @@ pub struct ColorParseError {
 
 /// Every form the parser accepts, for messages.
 pub const ACCEPTED_FORMS: &str =
-    "#rgb, #rrggbb, rgb(), hsl(), lab(), lch(), oklab(), oklch(), color(srgb|display-p3|rec2020 …) or device-cmyk()";
+    "a CSS colour name, #rgb, #rrggbb, rgb(), hsl(), lab(), lch(), oklab(), oklch(), color(srgb|display-p3|rec2020 …) or device-cmyk()";
 
 impl std::str::FromStr for ColorInput {
     type Err = ColorParseError;
@@ -98,6 +98,18 @@ fn parse_inner(t: &str) -> Result<ColorInput, String> {
         return parse_hex(hex);
     }
     let Some(open) = t.find('(') else {
+        if let Some(rgb) = super::named::named_color(t) {
+            return Ok(ColorInput::ScreenRgb(rgb.map(|v| f64::from(v) / 255.0)));
+        }
+        if t.eq_ignore_ascii_case("transparent") {
+            return Err(transparency("0"));
+        }
+        if t.eq_ignore_ascii_case("currentcolor") {
+            return Err("currentColor names the colour of the text around it, which a palette does not have".into());
+        }
+        if t.chars().all(|c| c.is_ascii_alphabetic()) {
+            return Err(format!("\"{t}\" is not a CSS colour name; {}", generic()));
+        }
         return Err(generic());
     };
     let name = &t[..open];

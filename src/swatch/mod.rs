@@ -152,7 +152,8 @@ pub enum Format {
 }
 
 impl Format {
-    /// By extension: `.csv`, `.json`; anything else is plain text.
+    /// By extension: `.csv` or `.tsv` (delimited, the delimiter sniffed),
+    /// `.json`; anything else is plain text.
     pub fn of_path(path: &Path) -> Format {
         match path
             .extension()
@@ -160,7 +161,7 @@ impl Format {
             .map(str::to_ascii_lowercase)
             .as_deref()
         {
-            Some("csv") => Format::Csv,
+            Some("csv" | "tsv") => Format::Csv,
             Some("json") => Format::Json,
             _ => Format::Text,
         }
@@ -182,8 +183,10 @@ impl Palette {
         Ok((p, text))
     }
 
-    /// Parses palette text; `file` names it in errors.
+    /// Parses palette text; `file` names it in errors. A byte order mark
+    /// at the start is ignored in every format.
     pub fn parse(file: &str, text: &str, format: Format) -> Result<Palette, PaletteError> {
+        let text = text.strip_prefix('\u{feff}').unwrap_or(text);
         let entries = match format {
             Format::Csv => parse_csv(file, text)?,
             Format::Json => parse_json(file, text)?,
@@ -238,6 +241,108 @@ fn read_bounded(path: &Path, file: &str) -> Result<String, PaletteError> {
 
 const NAME_HEADERS: &[&str] = &["name", "label", "class", "title", "id"];
 pub(crate) const COLOR_HEADERS: &[&str] = &["color", "colour", "value", "hex", "css"];
+const RGB_HEADERS: [[&str; 2]; 3] = [["r", "red"], ["g", "green"], ["b", "blue"]];
+const CMYK_HEADERS: [[&str; 2]; 4] = [["c", "cyan"], ["m", "magenta"], ["y", "yellow"], ["k", "black"]];
+
+/// Where a delimited palette keeps its colours.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub(crate) enum ColourColumns {
+    /// One column of colour text.
+    Text(usize),
+    /// R, G, B columns, 0–255.
+    Rgb([usize; 3]),
+    /// C, M, Y, K columns, 0–100 %.
+    Cmyk([usize; 4]),
+}
+
+/// The colour columns of a header row: a colour-text column if there is
+/// one, else R, G, B, else C, M, Y, K (header names ASCII case-insensitive,
+/// a byte order mark ignored).
+pub(crate) fn colour_columns<'a>(headers: impl Iterator<Item = &'a str> + Clone) -> Option<ColourColumns> {
+    let find = |names: &[&str]| {
+        headers.clone().position(|h| {
+            let h = h.trim().trim_start_matches('\u{feff}');
+            names.iter().any(|n| h.eq_ignore_ascii_case(n))
+        })
+    };
+    if let Some(c) = find(COLOR_HEADERS) {
+        return Some(ColourColumns::Text(c));
+    }
+    if let [Some(r), Some(g), Some(b)] = RGB_HEADERS.map(|n| find(&n)) {
+        return Some(ColourColumns::Rgb([r, g, b]));
+    }
+    if let [Some(c), Some(m), Some(y), Some(k)] = CMYK_HEADERS.map(|n| find(&n)) {
+        return Some(ColourColumns::Cmyk([c, m, y, k]));
+    }
+    None
+}
+
+/// The delimiter of a delimited palette: whichever of comma, semicolon and
+/// tab occurs most often outside quotes in its first line (comma on a tie
+/// or when none occurs).
+pub(crate) fn sniff_delimiter(text: &str) -> u8 {
+    let first = text.lines().next().unwrap_or("");
+    let mut counts = [0usize; 3];
+    let mut quoted = false;
+    for c in first.chars() {
+        match c {
+            '"' => quoted = !quoted,
+            ',' if !quoted => counts[0] += 1,
+            ';' if !quoted => counts[1] += 1,
+            '\t' if !quoted => counts[2] += 1,
+            _ => {}
+        }
+    }
+    let best = (0..3).max_by_key(|&i| (counts[i], std::cmp::Reverse(i))).unwrap_or(0);
+    if counts[best] == 0 {
+        b','
+    } else {
+        [b',', b';', b'\t'][best]
+    }
+}
+
+/// A colour as palettes write it: CSS colour text, or a hex colour without
+/// its `#` (six or eight hex digits, as spreadsheets and GIS tables keep
+/// them).
+pub(crate) fn palette_color(input: &str) -> Result<ColorInput, ColorParseError> {
+    parse_color(input).or_else(|e| {
+        let t = input.trim();
+        if matches!(t.len(), 6 | 8) && t.chars().all(|c| c.is_ascii_hexdigit()) {
+            parse_color(&format!("#{t}"))
+        } else {
+            Err(e)
+        }
+    })
+}
+
+/// The colour of a record of channel columns, as colour text and colour.
+fn channel_color(record: &csv::StringRecord, cols: ColourColumns) -> Result<String, String> {
+    let num = |c: usize, what: &str, max: f64| -> Result<f64, String> {
+        let t = record.get(c).unwrap_or("").trim();
+        let v: f64 = t.parse().map_err(|_| format!("{what} \"{t}\" is not a number"))?;
+        if (0.0..=max).contains(&v) {
+            Ok(v)
+        } else {
+            Err(format!("{what} {v} lies outside 0–{max}"))
+        }
+    };
+    match cols {
+        ColourColumns::Rgb([r, g, b]) => Ok(format!(
+            "rgb({} {} {})",
+            num(r, "R", 255.0)?,
+            num(g, "G", 255.0)?,
+            num(b, "B", 255.0)?
+        )),
+        ColourColumns::Cmyk([c, m, y, k]) => Ok(format!(
+            "device-cmyk({}% {}% {}% {}%)",
+            num(c, "C", 100.0)?,
+            num(m, "M", 100.0)?,
+            num(y, "Y", 100.0)?,
+            num(k, "K", 100.0)?
+        )),
+        ColourColumns::Text(_) => Err("not a channel layout".into()),
+    }
+}
 
 fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
     let syntax = |line: usize, message: String| PaletteError::Syntax {
@@ -250,6 +355,7 @@ fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
         .flexible(true)
         .trim(csv::Trim::All)
         .comment(None)
+        .delimiter(sniff_delimiter(text))
         .from_reader(text.as_bytes());
     let headers = reader
         .headers()
@@ -262,11 +368,11 @@ fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
                 .any(|n| h.trim_start_matches('\u{feff}').eq_ignore_ascii_case(n))
         })
     };
-    let color_col = find(COLOR_HEADERS).ok_or_else(|| {
+    let columns = colour_columns(headers.iter()).ok_or_else(|| {
         syntax(
             1,
             format!(
-                "no colour column in the header (expected one of: {})",
+                "no colour column in the header (expected one of: {}; or R, G, B; or C, M, Y, K)",
                 COLOR_HEADERS.join(", ")
             ),
         )
@@ -282,11 +388,15 @@ fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
         if record.iter().all(str::is_empty) {
             continue;
         }
-        let input = record
-            .get(color_col)
-            .filter(|s| !s.is_empty())
-            .ok_or_else(|| syntax(line, "the colour field is empty".to_string()))?;
-        let color = parse_color(input).map_err(|source| PaletteError::Color {
+        let input = match columns {
+            ColourColumns::Text(c) => record
+                .get(c)
+                .filter(|s| !s.is_empty())
+                .ok_or_else(|| syntax(line, "the colour field is empty".to_string()))?
+                .to_string(),
+            channels => channel_color(&record, channels).map_err(|m| syntax(line, m))?,
+        };
+        let color = palette_color(&input).map_err(|source| PaletteError::Color {
             file: file.to_string(),
             line,
             source,
@@ -294,10 +404,10 @@ fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
         let name = name_col
             .and_then(|c| record.get(c))
             .filter(|s| !s.is_empty())
-            .unwrap_or(input);
+            .unwrap_or(&input);
         entries.push(Entry {
             name: name.to_string(),
-            input: input.to_string(),
+            input: input.clone(),
             color,
             line,
         });
@@ -329,7 +439,7 @@ fn parse_json(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             .or_else(|| obj.get("colour"))
             .and_then(|v| v.as_str())
             .ok_or_else(|| format_err(format!("entry {n} has no \"color\" string")))?;
-        let color = parse_color(input).map_err(|source| PaletteError::JsonColor {
+        let color = palette_color(input).map_err(|source| PaletteError::JsonColor {
             file: file.to_string(),
             entry: n,
             source,
@@ -410,7 +520,7 @@ fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             line,
             message,
         })?;
-        let color = parse_color(input).map_err(|source| PaletteError::Color {
+        let color = palette_color(input).map_err(|source| PaletteError::Color {
             file: file.to_string(),
             line,
             source,
@@ -432,6 +542,56 @@ fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn delimiters_are_sniffed_from_the_header() {
+        assert_eq!(sniff_delimiter("name;colour\nA;#fff\n"), b';');
+        assert_eq!(sniff_delimiter("name\tcolour\n"), b'\t');
+        assert_eq!(sniff_delimiter("\"a;b\",colour\n"), b',');
+        assert_eq!(sniff_delimiter("colour\n"), b',');
+        let p = Palette::parse(
+            "t.csv",
+            "Name;Colour\nWood;2f6b3a\nWater;rgb(26 140 240)\n",
+            Format::Csv,
+        )
+        .unwrap();
+        assert_eq!(p.entries.len(), 2);
+        assert_eq!(p.entries[0].color, parse_color("#2f6b3a").unwrap());
+        let t = Palette::parse("t.tsv", "class\thex\nWood\t2F6B3A\n", Format::Csv).unwrap();
+        assert_eq!(t.entries[0].name, "Wood");
+    }
+
+    #[test]
+    fn channel_columns_are_colours() {
+        let rgb = Palette::parse("t.csv", "name,red,green,blue\nWood,47,107,58\n", Format::Csv).unwrap();
+        assert_eq!(rgb.entries[0].color, parse_color("#2f6b3a").unwrap());
+        let cmyk = Palette::parse("t.csv", "class,C,M,Y,K\nWood,80,20,90,10\n", Format::Csv).unwrap();
+        assert_eq!(
+            cmyk.entries[0].color,
+            parse_color("device-cmyk(80% 20% 90% 10%)").unwrap()
+        );
+        let e = Palette::parse("t.csv", "class,R,G,B\nA,1,2,3\nB,300,0,0\n", Format::Csv).unwrap_err();
+        assert_eq!(e.to_string(), "palette 't.csv', line 3: R 300 lies outside 0–255");
+        let e = Palette::parse("t.csv", "class,C,M,Y,K\nA,x,0,0,0\n", Format::Csv).unwrap_err();
+        assert_eq!(e.to_string(), "palette 't.csv', line 2: C \"x\" is not a number");
+    }
+
+    #[test]
+    fn byte_order_marks_and_named_colours_in_every_format() {
+        let text = Palette::parse("t.txt", "\u{feff}forestgreen Wood\n1f6f3a Marsh\n", Format::Text).unwrap();
+        assert_eq!(text.entries[0].name, "Wood");
+        assert_eq!(text.entries[0].color, parse_color("#228b22").unwrap());
+        assert_eq!(text.entries[1].color, parse_color("#1f6f3a").unwrap());
+        let json = Palette::parse(
+            "t.json",
+            "\u{feff}[{\"name\": \"Water\", \"color\": \"SteelBlue\"}]",
+            Format::Json,
+        )
+        .unwrap();
+        assert_eq!(json.entries[0].color, parse_color("#4682b4").unwrap());
+        // Three hex digits without '#' stay an error: "100" is no colour.
+        assert!(Palette::parse("t.txt", "100 Wood\n", Format::Text).is_err());
+    }
 
     #[test]
     fn csv_finds_columns_by_header_and_reads_quoted_fields() {

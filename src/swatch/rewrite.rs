@@ -16,7 +16,8 @@
 
 use std::io::{self, Write};
 
-use super::{Format, COLOR_HEADERS};
+use super::{colour_columns, palette_color, sniff_delimiter, ColourColumns, Format};
+use crate::color::css::ColorInput;
 
 /// One entry's new data, in file order.
 #[derive(Clone, Debug, PartialEq)]
@@ -39,6 +40,14 @@ pub fn cmyk_css(c: [f64; 4]) -> String {
 /// `rewrites.len()` entries) with each entry's colour and press CMYK
 /// replaced. `heading` is the first comment line of a text palette.
 pub fn rewrite(w: &mut dyn Write, format: Format, text: &str, rewrites: &[Rewrite], heading: &str) -> io::Result<()> {
+    // A byte order mark stays where it was, before everything else.
+    let text = match text.strip_prefix('\u{feff}') {
+        Some(rest) => {
+            w.write_all("\u{feff}".as_bytes())?;
+            rest
+        }
+        None => text,
+    };
     match format {
         Format::Csv => rewrite_csv(w, text, rewrites),
         Format::Json => rewrite_json(w, text, rewrites),
@@ -52,10 +61,12 @@ fn invalid(msg: &str) -> io::Error {
 
 fn rewrite_csv(w: &mut dyn Write, text: &str, rewrites: &[Rewrite]) -> io::Result<()> {
     let crlf = text.contains("\r\n");
+    let delimiter = sniff_delimiter(text);
     let mut reader = csv::ReaderBuilder::new()
         .has_headers(false)
         .flexible(true)
         .comment(None)
+        .delimiter(delimiter)
         .from_reader(text.as_bytes());
     let mut records = reader.records();
     let header = match records.next() {
@@ -64,7 +75,7 @@ fn rewrite_csv(w: &mut dyn Write, text: &str, rewrites: &[Rewrite]) -> io::Resul
     };
     let clean = |h: &str| h.trim().trim_start_matches('\u{feff}').to_ascii_lowercase();
     let find = |names: &[&str]| header.iter().position(|h| names.iter().any(|n| clean(h) == *n));
-    let color_col = find(COLOR_HEADERS).ok_or_else(|| invalid("no colour column in the header"))?;
+    let columns = colour_columns(header.iter()).ok_or_else(|| invalid("no colour column in the header"))?;
     let mut header_out: Vec<String> = header.iter().map(str::to_string).collect();
     let cmyk_col = match find(&[CMYK_FIELD]) {
         Some(c) => c,
@@ -75,6 +86,7 @@ fn rewrite_csv(w: &mut dyn Write, text: &str, rewrites: &[Rewrite]) -> io::Resul
     };
     let mut out = csv::WriterBuilder::new()
         .flexible(true)
+        .delimiter(delimiter)
         .terminator(if crlf {
             csv::Terminator::CRLF
         } else {
@@ -97,7 +109,22 @@ fn rewrite_csv(w: &mut dyn Write, text: &str, rewrites: &[Rewrite]) -> io::Resul
             fields.resize(cmyk_col + 1, String::new());
         }
         if let Some(c) = &rw.color {
-            fields[color_col] = c.clone();
+            match columns {
+                ColourColumns::Text(col) => fields[col] = c.clone(),
+                ColourColumns::Rgb(cols) => {
+                    let Ok(ColorInput::ScreenRgb(v)) = palette_color(c) else {
+                        return Err(invalid("a repaired colour is not screen RGB"));
+                    };
+                    for (col, x) in cols.iter().zip(v) {
+                        fields[*col] = format!("{}", (x * 255.0).round().clamp(0.0, 255.0) as u8);
+                    }
+                }
+                ColourColumns::Cmyk(_) => {
+                    return Err(invalid(
+                        "a repaired screen colour cannot be written into C, M, Y, K columns",
+                    ))
+                }
+            }
         }
         fields[cmyk_col] = cmyk_css(rw.press_cmyk);
         out.write_record(&fields)?;
@@ -302,6 +329,21 @@ mod tests {
         let back = Palette::parse("t.csv", &out, Format::Csv).unwrap();
         assert_eq!(back.entries[1].input, "#2080e0");
         assert_eq!(back.entries[0].name, "Wood");
+    }
+
+    #[test]
+    fn semicolon_csv_with_rgb_channels_stays_in_its_shape() {
+        // The delimiter and the R, G, B columns are kept; a BOM stays first.
+        let text = "\u{feff}name;R;G;B\nWood;47;107;58\nWater;26;140;240\n";
+        let out = run(Format::Csv, text, &[rw(None), rw(Some("#2080e0"))]);
+        assert_eq!(
+            out,
+            "\u{feff}name;R;G;B;press_cmyk\n\
+             Wood;47;107;58;device-cmyk(1.0% 2.0% 3.0% 4.5%)\n\
+             Water;32;128;224;device-cmyk(1.0% 2.0% 3.0% 4.5%)\n"
+        );
+        let back = Palette::parse("t.csv", &out, Format::Csv).unwrap();
+        assert_eq!(back.entries[1].input, "rgb(32 128 224)");
     }
 
     #[test]
