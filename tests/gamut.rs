@@ -31,17 +31,6 @@ fn press() -> &'static Gamut {
     G.get_or_init(|| Gamut::of_profile(&profile("offset-coated"), GamutOptions::default()).unwrap())
 }
 
-/// A small deterministic generator (xorshift64*, Vigna 2016), values in [0, 1).
-struct Rng(u64);
-impl Rng {
-    fn next(&mut self) -> f64 {
-        self.0 ^= self.0 >> 12;
-        self.0 ^= self.0 << 25;
-        self.0 ^= self.0 >> 27;
-        (self.0.wrapping_mul(0x2545_f491_4f6c_dd1d) >> 11) as f64 / (1u64 << 53) as f64
-    }
-}
-
 /// CIELAB → XYZ relative to D50 (CIE 015:2018, 8.2.1, inverted), written out
 /// here independently of the library.
 fn lab_to_xyz_d50(l: f64, a: f64, b: f64) -> [f64; 3] {

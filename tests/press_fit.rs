@@ -145,23 +145,6 @@ impl ReferencePress {
     }
 }
 
-/// xorshift64* (Vigna 2016), for repeatable charts and noise.
-struct Rng(u64);
-impl Rng {
-    fn next(&mut self) -> f64 {
-        self.0 ^= self.0 >> 12;
-        self.0 ^= self.0 << 25;
-        self.0 ^= self.0 >> 27;
-        (self.0.wrapping_mul(0x2545_f491_4f6c_dd1d) >> 11) as f64 / (1u64 << 53) as f64
-    }
-    /// A standard normal deviate (Box–Muller).
-    fn normal(&mut self) -> f64 {
-        let u = self.next().max(1e-300);
-        let v = self.next();
-        (-2.0 * u.ln()).sqrt() * (std::f64::consts::TAU * v).cos()
-    }
-}
-
 /// A characterisation chart in percent: single-ink ramps, the 16 corners,
 /// a grid of C, M, Y by K, and random combinations; about 1,900 patches.
 fn chart(rng: &mut Rng) -> Vec<[f64; 4]> {
@@ -230,6 +213,13 @@ fn measurement_file(press: &ReferencePress, rng: &mut Rng) -> String {
     )
 }
 
+/// Runs `build-press --from DATA --out OUT` with `extra` options.
+fn build_press(data: &str, out: &str, extra: &[&str]) -> std::process::Output {
+    let mut args = vec!["build-press", "--from", data, "--out", out];
+    args.extend_from_slice(extra);
+    run(&args)
+}
+
 /// CMYK (percent) → media-relative CIELAB through the profile's A2B1.
 fn profile_lab(path: &Path, cmyk: &[[f64; 4]]) -> Vec<[f64; 3]> {
     let p = Profile::new_file(path).unwrap();
@@ -288,16 +278,11 @@ fn fitted_profile_agrees_with_the_press_it_was_measured_on() {
     let data = dir.path().join("tarrowmere-press.txt");
     std::fs::write(&data, measurement_file(&press, &mut rng)).unwrap();
     let out = dir.path().join("tarrowmere-press.icc");
-    let o = run(&[
-        "build-press",
-        "--from",
+    let o = build_press(
         data.to_str().unwrap(),
-        "--out",
         out.to_str().unwrap(),
-        "--ink-limit",
-        "320",
-        "--json",
-    ]);
+        &["--ink-limit", "320", "--json"],
+    );
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let report = json(&o);
     println!("{}", serde_json::to_string_pretty(&report).unwrap());
@@ -440,15 +425,7 @@ fn assert_build_refused(dir: &Path, name: &str, text: &str, extra: &[&str], need
     let data = dir.join(name);
     std::fs::write(&data, text).unwrap();
     let out = dir.join("refused.icc");
-    let mut args = vec![
-        "build-press",
-        "--from",
-        data.to_str().unwrap(),
-        "--out",
-        out.to_str().unwrap(),
-    ];
-    args.extend_from_slice(extra);
-    let o = run(&args);
+    let o = build_press(data.to_str().unwrap(), out.to_str().unwrap(), extra);
     let mut all = vec![name];
     all.extend_from_slice(needles);
     assert_error(&o, &all);
@@ -533,17 +510,11 @@ fn bad_measurement_data_is_refused_and_no_profile_is_written() {
     let out = dir.path().join("never.icc");
     let (d, o) = (data.to_str().unwrap(), out.to_str().unwrap());
     assert_error(
-        &run(&["build-press", "--from", d, "--out", o, "--ink-limit", "60"]),
+        &build_press(d, o, &["--ink-limit", "60"]),
         &["--ink-limit 60", "100–400"],
     );
-    assert_error(
-        &run(&["build-press", "--from", d, "--out", o, "--black", "max"]),
-        &["--black", "medium"],
-    );
-    assert_error(
-        &run(&["build-press", "--from", d, "--out", o, "--folds", "1"]),
-        &["--folds"],
-    );
+    assert_error(&build_press(d, o, &["--black", "max"]), &["--black", "medium"]);
+    assert_error(&build_press(d, o, &["--folds", "1"]), &["--folds"]);
     assert!(!out.exists());
 }
 
@@ -553,13 +524,7 @@ fn the_profile_is_never_written_over_its_own_data() {
     let data = dir.path().join("press.txt");
     let text = measurement_file(&ReferencePress::new(), &mut Rng(11));
     std::fs::write(&data, &text).unwrap();
-    let o = run(&[
-        "build-press",
-        "--from",
-        data.to_str().unwrap(),
-        "--out",
-        data.to_str().unwrap(),
-    ]);
+    let o = build_press(data.to_str().unwrap(), data.to_str().unwrap(), &[]);
     assert_error(&o, &["press.txt"]);
     assert_eq!(
         std::fs::read_to_string(&data).unwrap(),
@@ -747,14 +712,7 @@ fn spectral_measurements_build_a_profile_that_matches_them() {
     let data = dir.path().join("spectral.txt");
     std::fs::write(&data, &text).unwrap();
     let out = dir.path().join("spectral.icc");
-    let o = run(&[
-        "build-press",
-        "--from",
-        data.to_str().unwrap(),
-        "--out",
-        out.to_str().unwrap(),
-        "--json",
-    ]);
+    let o = build_press(data.to_str().unwrap(), out.to_str().unwrap(), &["--json"]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let report = json(&o);
     assert!(report["cross_validated"]["p95"].as_f64().unwrap() < 1.0, "{report}");

@@ -77,3 +77,24 @@ pub fn listing(dir: &Path) -> Vec<String> {
     v.sort();
     v
 }
+
+/// A small deterministic generator (xorshift64*, Vigna 2016), for
+/// repeatable samples, charts and noise.
+pub struct Rng(pub u64);
+
+impl Rng {
+    /// Uniform in [0, 1).
+    pub fn next(&mut self) -> f64 {
+        self.0 ^= self.0 >> 12;
+        self.0 ^= self.0 << 25;
+        self.0 ^= self.0 >> 27;
+        (self.0.wrapping_mul(0x2545_f491_4f6c_dd1d) >> 11) as f64 / (1u64 << 53) as f64
+    }
+
+    /// A standard normal deviate (Box–Muller).
+    pub fn normal(&mut self) -> f64 {
+        let u = self.next().max(1e-300);
+        let v = self.next();
+        (-2.0 * u.ln()).sqrt() * (std::f64::consts::TAU * v).cos()
+    }
+}
