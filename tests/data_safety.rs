@@ -43,13 +43,15 @@ fn repair_out_onto_its_own_palette_is_refused() {
 #[test]
 fn check_svg_onto_its_palette_is_refused() {
     let dir = tempfile::tempdir().unwrap();
+    // SVG artwork is a palette too: the figure may not replace it.
     let p = dir.path().join("palette.svg");
-    fs::write(&p, "#2f6b3a Woodland\n").unwrap();
+    let art = "<svg xmlns='http://www.w3.org/2000/svg'><rect width='1' height='1' fill='#2f6b3a'/></svg>\n";
+    fs::write(&p, art).unwrap();
     assert_error(
         &run(&["check", s(&p), "--svg", s(&p)]),
         &["palette.svg", "overwrite the input"],
     );
-    assert_eq!(fs::read_to_string(&p).unwrap(), "#2f6b3a Woodland\n");
+    assert_eq!(fs::read_to_string(&p).unwrap(), art);
 }
 
 #[test]

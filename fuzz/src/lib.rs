@@ -97,6 +97,15 @@ pub fn palette(data: &[u8], format: Format) {
                     }
                     // JSON: the entry number.
                     Format::Json => {}
+                    // SVG: the line of the first use, and how it is used.
+                    Format::Svg => {
+                        assert!(e.line <= lines, "property: line {} of a {lines}-line SVG", e.line);
+                        let u = e.usage.as_ref().expect("property: an artwork colour has its usage");
+                        assert!(
+                            u.uses >= 1 && u.opacity > 0.0 && u.opacity <= 1.0,
+                            "property: usage {u:?}"
+                        );
+                    }
                 }
             }
         }

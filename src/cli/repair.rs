@@ -80,6 +80,15 @@ const ITERATIONS: usize = 40;
 pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     // The plan: options, palette, profiles and gamut before any work.
     let sopts = a.survival.options()?;
+    let format = Format::of_path(&a.palette);
+    if format == Format::Svg {
+        return Err(format!(
+            "{}: repair writes a palette back in its own shape, and SVG artwork is not rewritten; \
+             check the artwork, or repair a palette file of its colours",
+            a.palette.display()
+        )
+        .into());
+    }
     let (palette, text) = Palette::read_with_text(&a.palette)?;
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
@@ -92,7 +101,6 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
         iterations: ITERATIONS,
     };
     let (r, _, _) = repair(&palette, &screen, &press, &gamut, &opts)?;
-    let format = Format::of_path(&a.palette);
     let heading = text_heading(&r.conditions.press, &r.conditions.screen);
     outputs.stage(&a.out, |w| rewrite(w, format, &text, &r.rewrites(), &heading))?;
     outputs.commit()?;

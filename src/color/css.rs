@@ -53,7 +53,32 @@ impl std::str::FromStr for ColorInput {
 /// case-insensitive.
 pub fn parse_color(text: &str) -> Result<ColorInput, ColorParseError> {
     parse_inner(text.trim())
+        .and_then(|(c, alpha)| {
+            if alpha < 1.0 {
+                Err(transparency(&format!("{}", crate::precision::round(alpha, 4))))
+            } else {
+                Ok(c)
+            }
+        })
         .and_then(plausible)
+        .map_err(|expected| ColorParseError {
+            input: text.to_string(),
+            expected,
+        })
+}
+
+/// [`parse_color`] for artwork, where a colour may be partly transparent:
+/// the colour and its alpha (0..1; 1 when none is given). `transparent` is
+/// black with alpha 0, as CSS defines it.
+pub fn parse_color_with_alpha(text: &str) -> Result<(ColorInput, f64), ColorParseError> {
+    let t = text.trim();
+    let parsed = if t.eq_ignore_ascii_case("transparent") {
+        Ok((ColorInput::ScreenRgb([0.0; 3]), 0.0))
+    } else {
+        parse_inner(t)
+    };
+    parsed
+        .and_then(|(c, a)| plausible(c).map(|c| (c, a)))
         .map_err(|expected| ColorParseError {
             input: text.to_string(),
             expected,
@@ -90,7 +115,7 @@ fn generic() -> String {
     format!("expected {ACCEPTED_FORMS}")
 }
 
-fn parse_inner(t: &str) -> Result<ColorInput, String> {
+fn parse_inner(t: &str) -> Result<(ColorInput, f64), String> {
     if t.is_empty() {
         return Err(format!("empty text; {}", generic()));
     }
@@ -99,7 +124,7 @@ fn parse_inner(t: &str) -> Result<ColorInput, String> {
     }
     let Some(open) = t.find('(') else {
         if let Some(rgb) = super::named::named_color(t) {
-            return Ok(ColorInput::ScreenRgb(rgb.map(|v| f64::from(v) / 255.0)));
+            return Ok((ColorInput::ScreenRgb(rgb.map(|v| f64::from(v) / 255.0)), 1.0));
         }
         if t.eq_ignore_ascii_case("transparent") {
             return Err(transparency("0"));
@@ -143,7 +168,7 @@ fn parse_inner(t: &str) -> Result<ColorInput, String> {
 
 // ---------------------------------------------------------------- hex
 
-fn parse_hex(hex: &str) -> Result<ColorInput, String> {
+fn parse_hex(hex: &str) -> Result<(ColorInput, f64), String> {
     let digits: Option<Vec<u8>> = hex.chars().map(|c| c.to_digit(16).map(|d| d as u8)).collect();
     let bad = || format!("a hex colour is #rgb or #rrggbb (hex digits 0-9, a-f); found \"#{hex}\"");
     let d = digits.ok_or_else(bad)?;
@@ -158,12 +183,8 @@ fn parse_hex(hex: &str) -> Result<ColorInput, String> {
         }
         _ => return Err(bad()),
     };
-    if let Some(a) = alpha {
-        if a != 255 {
-            return Err(transparency(&format!("{:.4}", f64::from(a) / 255.0)));
-        }
-    }
-    Ok(ColorInput::ScreenRgb(rgb.map(|v| f64::from(v) / 255.0)))
+    let alpha = alpha.map_or(1.0, |a| f64::from(a) / 255.0);
+    Ok((ColorInput::ScreenRgb(rgb.map(|v| f64::from(v) / 255.0)), alpha))
 }
 
 fn transparency(alpha: &str) -> String {
@@ -472,8 +493,9 @@ fn resolve_comp(f: &str, idx: usize, s: &Slot, t: &Tok, legacy: bool) -> Result<
     }
 }
 
-fn check_alpha(f: &str, args: &Args) -> Result<(), String> {
-    let Some(a) = &args.alpha else { return Ok(()) };
+/// The alpha of a call, clamped to 0..1 as CSS does (1 when none is given).
+fn alpha_of(f: &str, args: &Args) -> Result<f64, String> {
+    let Some(a) = &args.alpha else { return Ok(1.0) };
     let v = match &a.kind {
         Kind::Num(v) => *v,
         Kind::Pct(p) => p / 100.0,
@@ -486,17 +508,16 @@ fn check_alpha(f: &str, args: &Args) -> Result<(), String> {
         }
     };
     // CSS clamps alpha to 0..1, so anything ≥ 1 is opaque.
-    if v >= 1.0 {
-        Ok(())
-    } else {
-        Err(format!("{f}(): {}", transparency(a.text)))
+    if v.is_nan() {
+        return Err(format!("{f}(): alpha \"{}\" is not a number", a.text));
     }
+    Ok(v.clamp(0.0, 1.0))
 }
 
 impl Func {
     /// Resolves a parsed call: the colour space of `color()`, the argument
     /// count, each argument against its slot, alpha, then the colour.
-    fn resolve(self, f: &str, mut args: Args) -> Result<ColorInput, String> {
+    fn resolve(self, f: &str, mut args: Args) -> Result<(ColorInput, f64), String> {
         let space = self.take_space(&mut args)?;
         let slots = self.slots(args.legacy);
         self.check_arity(f, slots, &mut args)?;
@@ -504,8 +525,8 @@ impl Func {
         for (i, (s, t)) in slots.iter().zip(&args.comps).enumerate() {
             v.push(resolve_comp(f, i, s, t, args.legacy)?);
         }
-        check_alpha(f, &args)?;
-        self.color(f, &v, args.legacy, space)
+        let alpha = alpha_of(f, &args)?;
+        self.color(f, &v, args.legacy, space).map(|c| (c, alpha))
     }
 
     /// The colour space that comes first in `color()`, taken off the

@@ -134,7 +134,36 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
         fixed(s.max_delta_e00, 2),
         s.worst,
         fixed(s.mean_delta_e00, 2)
-    )
+    )?;
+    render_usage(w, r)
+}
+
+/// For artwork: how many paints the colours come from, and the colours
+/// painted with opacity below 1, whose print depends on what lies beneath.
+fn render_usage(w: &mut dyn Write, r: &CheckReport) -> io::Result<()> {
+    let used: Vec<_> = r
+        .entries
+        .iter()
+        .filter_map(|e| e.usage.as_ref().map(|u| (e, u)))
+        .collect();
+    if used.is_empty() {
+        return Ok(());
+    }
+    let paints: usize = used.iter().map(|(_, u)| u.uses).sum();
+    writeln!(w, "artwork  {} distinct colours from {paints} paints", used.len())?;
+    let see_through: Vec<String> = used
+        .iter()
+        .filter(|(_, u)| u.opacity < 1.0)
+        .map(|(e, u)| format!("{} (opacity {})", e.name, fixed(u.opacity, 2)))
+        .collect();
+    if !see_through.is_empty() {
+        writeln!(
+            w,
+            "         painted with opacity below 1, so printed over what lies beneath (the table shows them opaque): {}",
+            see_through.join(", ")
+        )?;
+    }
+    Ok(())
 }
 
 /// The four colour differences between two colours.

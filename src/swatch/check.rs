@@ -107,6 +107,10 @@ pub struct CheckedEntry {
     pub outside_by: Option<f64>,
     /// `delta_e00` is no more than the tolerance.
     pub within_tolerance: bool,
+    /// How the artwork uses the colour (uses, properties, lowest opacity);
+    /// absent for a palette file.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub usage: Option<crate::swatch::Usage>,
 }
 
 /// Counts and ΔE00 figures over all entries of a check.
@@ -372,6 +376,7 @@ fn checked_entry(
         round_trip_delta_e00: round(rt, 2),
         outside_by: outside_by.map(|d| round(d, 2)),
         within_tolerance: de <= tolerance,
+        usage: e.usage.clone(),
     })
 }
 

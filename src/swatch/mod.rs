@@ -7,6 +7,7 @@ pub mod repair;
 pub mod rewrite;
 pub mod separation;
 pub mod survival;
+pub mod svg;
 
 use std::path::Path;
 
@@ -21,8 +22,22 @@ pub struct Entry {
     pub input: String,
     /// The colour the text parses to.
     pub color: ColorInput,
-    /// Where it was written: a line number (CSV, text) or entry number (JSON), 1-based.
+    /// Where it was written: a line number (CSV, text, SVG) or entry number (JSON), 1-based.
     pub line: usize,
+    /// How artwork uses the colour; `None` for a palette file.
+    pub usage: Option<Usage>,
+}
+
+/// How artwork uses one of its colours.
+#[derive(Clone, Debug, PartialEq, serde::Serialize)]
+pub struct Usage {
+    /// How many paints use it.
+    pub uses: usize,
+    /// The properties it is painted with (`fill`, `stroke`, `stop-color` …).
+    pub properties: Vec<String>,
+    /// The lowest opacity it is painted with (group opacities multiplied
+    /// in); below 1 the printed colour depends on what lies beneath.
+    pub opacity: f64,
 }
 
 /// A palette: its entries in file order.
@@ -149,6 +164,8 @@ pub enum Format {
     Json,
     /// Plain text, one colour a line.
     Text,
+    /// SVG artwork: every paint it uses.
+    Svg,
 }
 
 impl Format {
@@ -163,6 +180,7 @@ impl Format {
         {
             Some("csv" | "tsv") => Format::Csv,
             Some("json") => Format::Json,
+            Some("svg") => Format::Svg,
             _ => Format::Text,
         }
     }
@@ -191,6 +209,7 @@ impl Palette {
             Format::Csv => parse_csv(file, text)?,
             Format::Json => parse_json(file, text)?,
             Format::Text => parse_text(file, text)?,
+            Format::Svg => svg::parse_svg(file, text)?,
         };
         if entries.is_empty() {
             return Err(PaletteError::Empty { file: file.to_string() });
@@ -410,6 +429,7 @@ fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             input: input.clone(),
             color,
             line,
+            usage: None,
         });
     }
     Ok(entries)
@@ -454,6 +474,7 @@ fn parse_json(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             input: input.to_string(),
             color,
             line: n,
+            usage: None,
         });
     }
     Ok(entries)
@@ -534,6 +555,7 @@ fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             input: input.to_string(),
             color,
             line,
+            usage: None,
         });
     }
     Ok(entries)

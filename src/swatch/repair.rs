@@ -484,6 +484,7 @@ fn with_positions(palette: &Palette, o: &[LabD50], x: &[LabD50], screen: &IccPro
                 input: format!("#{:02x}{:02x}{:02x}", b[0], b[1], b[2]),
                 color: ColorInput::ScreenRgb(b.map(|v| f64::from(v) / 255.0)),
                 line: e.line,
+                usage: e.usage.clone(),
             }
         })
         .collect();

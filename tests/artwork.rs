@@ -1,0 +1,255 @@
+//! The colours of SVG artwork: paint resolution by the SVG and CSS rules
+//! (each test names the rule it checks), and bad artwork refused cleanly.
+
+mod common;
+use common::*;
+
+use inkfit::color::css::{parse_color, ColorInput};
+use inkfit::swatch::{Entry, Format, Palette};
+
+fn svg(body: &str) -> String {
+    format!("<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"10\" height=\"10\">{body}</svg>")
+}
+
+fn entries(body: &str) -> Vec<Entry> {
+    Palette::parse("t.svg", &svg(body), Format::Svg).unwrap().entries
+}
+
+fn rgb(e: &Entry) -> [u8; 3] {
+    match e.color {
+        ColorInput::ScreenRgb(v) => v.map(|x| (x * 255.0).round() as u8),
+        ref c => panic!("not screen RGB: {c:?}"),
+    }
+}
+
+fn hex(h: &str) -> [u8; 3] {
+    let Ok(ColorInput::ScreenRgb(v)) = parse_color(h) else {
+        panic!("{h}")
+    };
+    v.map(|x| (x * 255.0).round() as u8)
+}
+
+#[test]
+fn style_rules_beat_presentation_attributes() {
+    // SVG 2, 6.7: presentation attributes count as author rules of
+    // specificity 0 placed before all other author rules, so any matching
+    // style sheet rule wins over them.
+    let e = entries("<style>rect { fill: #00ff00 }</style><rect width='5' height='5' fill='#ff0000'/>");
+    assert_eq!(e.len(), 1);
+    assert_eq!(rgb(&e[0]), [0, 255, 0]);
+}
+
+#[test]
+fn specificity_then_order_decide_between_rules() {
+    // CSS 2.1, 6.4.3: an id selector (0,1,0,0) beats a class (0,0,1,0),
+    // which beats a type (0,0,0,1), whatever their order; among equal
+    // specificity the later rule wins (6.4.1, step 4).
+    let e = entries(
+        "<style>#a { fill: #0000ff } .c { fill: #00ff00 } path { fill: #ff0000 } \
+         .d { fill: #111111 } .d { fill: #222222 }</style>\
+         <path id='a' class='c' d='M0 0h1v1z'/><path class='c' d='M0 0h1v1z'/><path d='M0 0h1v1z'/>\
+         <path class='d' d='M0 0h1v1z'/>",
+    );
+    let got: Vec<[u8; 3]> = e.iter().map(rgb).collect();
+    assert_eq!(got, vec![[0, 0, 255], [0, 255, 0], [255, 0, 0], [0x22, 0x22, 0x22]]);
+}
+
+#[test]
+fn the_style_attribute_beats_rules_and_important_beats_it() {
+    // CSS 2.1, 6.4.1 and 6.4.2: declarations in the style attribute come
+    // after the style sheet's; an !important author declaration beats a
+    // normal one wherever it is.
+    let e = entries(
+        "<style>.x { fill: #ff0000 } .y { fill: #00ff00 !important }</style>\
+         <rect class='x' style='fill: #0000ff' width='1' height='1'/>\
+         <rect class='y' style='fill: #0000ff' width='1' height='1'/>",
+    );
+    assert_eq!(e.iter().map(rgb).collect::<Vec<_>>(), vec![[0, 0, 255], [0, 255, 0]]);
+}
+
+#[test]
+fn descendant_and_child_selectors_match_through_groups() {
+    // Selectors Level 3, 8.1 and 8.2: "g.roads path" matches a path at any
+    // depth under the group; "g > circle" only a direct child.
+    let e = entries(
+        "<style>g.roads path { stroke: #c83c28; fill: none } g > circle { fill: #00aa00 }</style>\
+         <g class='roads'><g><path d='M0 0L5 5'/></g></g>\
+         <g><circle r='1'/><a><circle r='1' fill='#0000aa'/></a></g>",
+    );
+    assert_eq!(
+        e.iter().map(rgb).collect::<Vec<_>>(),
+        vec![hex("#c83c28"), [0, 0xaa, 0], [0, 0, 0xaa]]
+    );
+    // The road colour is named by the group that classes it.
+    assert_eq!(e[0].name, "roads");
+}
+
+#[test]
+fn fill_inherits_and_stop_color_does_not() {
+    // SVG 1.1 property index: fill is inherited, stop-color is not (its
+    // initial value, black, applies to a stop that sets none); `inherit`
+    // takes the parent's value even for a property that does not inherit.
+    let e = entries(
+        "<g fill='#336699'><rect width='1' height='1'/></g>\
+         <linearGradient id='g' stop-color='#ff0000'><stop offset='0'/><stop offset='1' stop-color='inherit'/></linearGradient>",
+    );
+    assert_eq!(
+        e.iter().map(rgb).collect::<Vec<_>>(),
+        vec![hex("#336699"), [0, 0, 0], [255, 0, 0]]
+    );
+}
+
+#[test]
+fn current_color_takes_the_inherited_color_property() {
+    // CSS Color 4, 6.4: currentColor is the value of the color property,
+    // which inherits (SVG 1.1 property index).
+    let e = entries("<g color='darkgreen'><circle r='1' fill='currentColor' stroke='currentcolor'/></g>");
+    assert_eq!(e.len(), 1);
+    assert_eq!(rgb(&e[0]), hex("#006400"));
+    let u = e[0].usage.as_ref().unwrap();
+    assert_eq!(
+        (u.uses, u.properties.clone()),
+        (2, vec!["fill".to_string(), "stroke".to_string()])
+    );
+}
+
+#[test]
+fn initial_fill_is_black_and_initial_stroke_none() {
+    // SVG 1.1, 11.2 and 11.4: fill's initial value is black, stroke's none;
+    // a line has no interior, so only its stroke paints.
+    let e = entries("<rect width='1' height='1'/><line x2='5' stroke='#0000ff'/>");
+    assert_eq!(e.iter().map(rgb).collect::<Vec<_>>(), vec![[0, 0, 0], [0, 0, 255]]);
+}
+
+#[test]
+fn what_does_not_paint_is_not_read() {
+    // none, a paint server (its stops count where defined), clip paths and
+    // masks (SVG 1.1, 14.3.5: their paint is not rendered), display: none.
+    let e = entries(
+        "<radialGradient id='r'><stop stop-color='#abcdef'/></radialGradient>\
+         <rect width='1' height='1' fill='url(#r)' stroke='none'/>\
+         <clipPath id='c'><rect width='1' height='1' fill='#ff0000'/></clipPath>\
+         <mask id='m'><rect width='1' height='1' fill='#ffffff'/></mask>\
+         <g style='display: none'><rect width='1' height='1' fill='#00ff00'/></g>\
+         <rect width='1' height='1' display='none' fill='#0000ff'/>",
+    );
+    assert_eq!(e.iter().map(rgb).collect::<Vec<_>>(), vec![hex("#abcdef")]);
+}
+
+#[test]
+fn filter_paints_are_read() {
+    let e = entries(
+        "<filter id='f'><feFlood flood-color='#102030'/><feDropShadow flood-color='gold'/>\
+         <feDiffuseLighting lighting-color='#fefefe'/></filter>",
+    );
+    assert_eq!(
+        e.iter().map(rgb).collect::<Vec<_>>(),
+        vec![hex("#102030"), hex("#ffd700"), hex("#fefefe")]
+    );
+}
+
+#[test]
+fn opacity_is_multiplied_down_the_tree_and_noted() {
+    // SVG 1.1, 14.5: a group's opacity applies to everything in it, on top
+    // of fill-opacity; an alpha in the colour itself counts too. The lowest
+    // opacity of a colour's uses is kept.
+    let e = entries(
+        "<g opacity='0.5'><rect width='1' height='1' fill='#ff0000' fill-opacity='0.5'/></g>\
+         <rect width='1' height='1' fill='#ff0000'/>\
+         <rect width='1' height='1' fill='rgb(0 0 255 / 40%)'/>\
+         <rect width='1' height='1' fill='#00ff00' opacity='0'/>",
+    );
+    assert_eq!(e.len(), 2, "a fully transparent paint is not a colour of the print");
+    let red = e[0].usage.as_ref().unwrap();
+    assert_eq!((red.uses, red.opacity), (2, 0.25));
+    assert_eq!(e[1].usage.as_ref().unwrap().opacity, 0.4);
+}
+
+#[test]
+fn distinct_colours_are_one_entry_each_named_by_their_first_user() {
+    let e = entries(
+        "<path id='woodland' d='M0 0h1v1z' fill='#2f6b3a'/><path class='forest x' d='M0 0h1v1z' fill='#2F6B3A'/>\
+         <path id='woodland-edge' d='M0 0h1v1z' fill='none' stroke='rgb(47, 107, 58)'/>\
+         <path id='lake' d='M0 0h1v1z' fill='steelblue' stroke='#1a4a7a'/>",
+    );
+    let names: Vec<&str> = e.iter().map(|x| x.name.as_str()).collect();
+    assert_eq!(names, vec!["woodland", "lake", "lake stroke"]);
+    assert_eq!(e[0].usage.as_ref().unwrap().uses, 3);
+    // The line is the first use's.
+    assert_eq!(e[0].line, 1);
+}
+
+#[test]
+fn a_colour_is_named_by_the_class_whose_rule_paints_it() {
+    // "parcel woodland" painted by the .woodland rule is woodland; its
+    // stroke, painted by .parcel, is parcel.
+    let e = entries(
+        "<style>.parcel { stroke: #ffffff } .woodland { fill: #2f6b3a } .pasture { fill: #98c46a }</style>\
+         <path class='parcel woodland' d='M0 0h1v1z'/><path class='parcel pasture' d='M0 0h1v1z'/>",
+    );
+    let names: Vec<&str> = e.iter().map(|x| x.name.as_str()).collect();
+    assert_eq!(names, vec!["woodland", "parcel", "pasture"]);
+}
+
+#[test]
+fn bad_artwork_is_refused_with_the_file_and_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let cases: [(&str, String, &[&str]); 4] = [
+        (
+            "broken.svg",
+            "<svg xmlns='http://www.w3.org/2000/svg'>\n<rect>\n</svg>".to_string(),
+            &["broken.svg", "line 3"],
+        ),
+        (
+            "html.svg",
+            "<html><body/></html>".to_string(),
+            &["html.svg", "<html>", "not <svg>"],
+        ),
+        (
+            "entities.svg",
+            "<!DOCTYPE svg [<!ENTITY a \"aaaaaaaaaa\"><!ENTITY b \"&a;&a;&a;&a;&a;&a;\">]>\n<svg>&b;</svg>".to_string(),
+            &["entities.svg", "line 1"],
+        ),
+        (
+            "paint.svg",
+            "<svg xmlns='http://www.w3.org/2000/svg'>\n\n<rect fill='#12345'/></svg>".to_string(),
+            &["paint.svg", "line 3", "#12345"],
+        ),
+    ];
+    for (name, text, needles) in cases {
+        let path = dir.path().join(name);
+        std::fs::write(&path, text).unwrap();
+        assert_error(&run(&["check", path.to_str().unwrap()]), needles);
+    }
+    // repair does not rewrite artwork, and says so before any work.
+    let ok = dir.path().join("ok.svg");
+    std::fs::write(&ok, svg("<rect fill='#2f6b3a'/>")).unwrap();
+    let out = dir.path().join("out.svg");
+    assert_error(
+        &run(&["repair", ok.to_str().unwrap(), "--out", out.to_str().unwrap()]),
+        &["ok.svg", "not rewritten"],
+    );
+    assert!(!out.exists());
+}
+
+#[test]
+fn check_reads_artwork_end_to_end() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("sheet.svg");
+    std::fs::write(
+        &path,
+        svg(
+            "<style>.woodland { fill: #2f6b3a }</style><path class='woodland' d='M0 0h1v1z'/>\
+             <g opacity='0.6'><path id='marsh' d='M0 0h1v1z' fill='#78a05a'/></g>",
+        ),
+    )
+    .unwrap();
+    let o = run(&["check", path.to_str().unwrap(), "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v = json(&o);
+    assert_eq!(v["entries"][0]["name"], "woodland");
+    assert_eq!(v["entries"][1]["usage"]["opacity"], 0.6);
+    let text = stdout(&run(&["check", path.to_str().unwrap()]));
+    assert!(text.contains("artwork  2 distinct colours from 2 paints"), "{text}");
+    assert!(text.contains("marsh (opacity 0.60)"), "{text}");
+}
