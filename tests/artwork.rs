@@ -221,6 +221,49 @@ fn bad_artwork_is_refused_with_the_file_and_line() {
         std::fs::write(&path, text).unwrap();
         assert_error(&run(&["check", path.to_str().unwrap()]), needles);
     }
+    // Hostile shapes: nesting deep enough to exhaust a recursive walk, and
+    // enough rules and elements to match for hours. Both are refused from
+    // their size, quickly.
+    let deep = format!(
+        "<svg xmlns='http://www.w3.org/2000/svg'>{}<rect fill='red'/>{}</svg>",
+        "<g>".repeat(100_000),
+        "</g>".repeat(100_000)
+    );
+    let path = dir.path().join("deep.svg");
+    std::fs::write(&path, deep).unwrap();
+    assert_error(
+        &run(&["check", path.to_str().unwrap()]),
+        &["deep.svg", "nested deeper than 512"],
+    );
+    let rules: String = (0..5_000).map(|i| format!(".c{i}{{fill:#{:06x}}}", i * 37)).collect();
+    let many = format!(
+        "<svg xmlns='http://www.w3.org/2000/svg'><style>{rules}</style>{}</svg>",
+        "<rect fill='red'/>".repeat(20_000)
+    );
+    let path = dir.path().join("many.svg");
+    std::fs::write(&path, many).unwrap();
+    assert_error(
+        &run(&["check", path.to_str().unwrap()]),
+        &["many.svg", "5000 style rules", "20002 elements"],
+    );
+    // A style sheet beyond 256 KiB, and a style attribute beyond 16 KiB.
+    let big = format!(
+        "<svg xmlns='http://www.w3.org/2000/svg'><style>{}</style></svg>",
+        "x{}".repeat(100_000)
+    );
+    let path = dir.path().join("big-style.svg");
+    std::fs::write(&path, big).unwrap();
+    assert_error(&run(&["check", path.to_str().unwrap()]), &["big-style.svg", "256 KiB"]);
+    let long = format!(
+        "<svg xmlns='http://www.w3.org/2000/svg'>\n<rect style='{}'/></svg>",
+        "fill:red;".repeat(3_000)
+    );
+    let path = dir.path().join("long-style.svg");
+    std::fs::write(&path, long).unwrap();
+    assert_error(
+        &run(&["check", path.to_str().unwrap()]),
+        &["long-style.svg", "line 2", "16 KiB"],
+    );
     // repair does not rewrite artwork, and says so before any work.
     let ok = dir.path().join("ok.svg");
     std::fs::write(&ok, svg("<rect fill='#2f6b3a'/>")).unwrap();
