@@ -283,7 +283,7 @@ fn check_reads_artwork_end_to_end() {
         &path,
         svg(
             "<style>.woodland { fill: #2f6b3a }</style><path class='woodland' d='M0 0h1v1z'/>\
-             <g opacity='0.6'><path id='marsh' d='M0 0h1v1z' fill='#78a05a'/></g>",
+             <path class='woodland' d='M2 0h1v1z'/><g opacity='0.6'><path id='marsh' d='M0 0h1v1z' fill='#78a05a'/></g>",
         ),
     )
     .unwrap();
@@ -293,6 +293,6 @@ fn check_reads_artwork_end_to_end() {
     assert_eq!(v["entries"][0]["name"], "woodland");
     assert_eq!(v["entries"][1]["usage"]["opacity"], 0.6);
     let text = stdout(&run(&["check", path.to_str().unwrap()]));
-    assert!(text.contains("artwork  2 distinct colours from 2 paints"), "{text}");
+    assert!(text.contains("artwork  2 distinct colours from 3 paints"), "{text}");
     assert!(text.contains("marsh (opacity 0.60)"), "{text}");
 }

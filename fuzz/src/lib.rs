@@ -97,8 +97,8 @@ pub fn palette(data: &[u8], format: Format) {
                     }
                     // JSON: the entry number.
                     Format::Json => {}
-                    // SVG: the line of the first use, and how it is used.
-                    Format::Svg => {
+                    // SVG and map styles: the line of the first use, and how it is used.
+                    Format::Svg | Format::Sld => {
                         assert!(e.line <= lines, "property: line {} of a {lines}-line SVG", e.line);
                         let u = e.usage.as_ref().expect("property: an artwork colour has its usage");
                         assert!(

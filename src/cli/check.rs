@@ -70,11 +70,12 @@ pub struct DeltaArgs {
 pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     super::check_tolerance(a.tolerance)?;
     // The plan: everything is read and checked before any output.
-    let survival = a.survival.options()?;
+    let mut survival = a.survival.options()?;
     if let Some(p) = &a.svg {
         super::plot::check_svg_path(p)?;
     }
     let palette = Palette::read(&a.palette)?;
+    a.survival.scheme_for(&palette, &mut survival);
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
     let mut outputs = guarded_outputs(&[&a.palette], &[&screen, &press]);

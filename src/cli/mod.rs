@@ -153,9 +153,9 @@ pub enum CvdArg {
 /// The palette checks shared by `check` and `repair`.
 #[derive(Args, Debug, Clone)]
 pub struct SurvivalArgs {
-    /// Kind of palette: qualitative classes, a sequential scale (file order), or diverging (two arms from the middle entry).
-    #[arg(long, value_enum, default_value = "qualitative")]
-    pub scheme: SchemeArg,
+    /// Kind of palette: qualitative classes, a sequential scale (file order), or diverging (two arms from the middle entry). Default: qualitative, or sequential for a map style that is only a raster colour map.
+    #[arg(long, value_enum)]
+    pub scheme: Option<SchemeArg>,
     /// Smallest printed ΔE00 between any two entries. The default 10 is a rule of thumb for map classes told apart at a glance, not a standard.
     #[arg(long, allow_negative_numbers = true, value_name = "ΔE00", default_value_t = crate::swatch::separation::DEFAULT_MIN_SEPARATION)]
     pub min_separation: f64,
@@ -172,12 +172,13 @@ pub struct SurvivalArgs {
 
 impl SurvivalArgs {
     /// The survival options these arguments ask for; an error when a value is out of range.
+    /// Without `--scheme`, the scheme is qualitative until [`SurvivalArgs::scheme_for`] says otherwise.
     pub fn options(&self) -> Result<crate::swatch::survival::SurvivalOptions, Error> {
         let o = crate::swatch::survival::SurvivalOptions {
             scheme: match self.scheme {
-                SchemeArg::Qualitative => crate::swatch::order::Scheme::Qualitative,
-                SchemeArg::Sequential => crate::swatch::order::Scheme::Sequential,
-                SchemeArg::Diverging => crate::swatch::order::Scheme::Diverging,
+                None | Some(SchemeArg::Qualitative) => crate::swatch::order::Scheme::Qualitative,
+                Some(SchemeArg::Sequential) => crate::swatch::order::Scheme::Sequential,
+                Some(SchemeArg::Diverging) => crate::swatch::order::Scheme::Diverging,
             },
             min_separation: self.min_separation,
             min_step: self.min_step,
@@ -194,6 +195,16 @@ impl SurvivalArgs {
         };
         o.validate()?;
         Ok(o)
+    }
+
+    /// The scheme for `palette`: `--scheme` when given, else what the file's
+    /// shape says (a raster colour map is sequential), else qualitative.
+    pub fn scheme_for(&self, palette: &crate::swatch::Palette, options: &mut crate::swatch::survival::SurvivalOptions) {
+        if self.scheme.is_none() {
+            if let Some(s) = palette.scheme_hint {
+                options.scheme = s;
+            }
+        }
     }
 }
 

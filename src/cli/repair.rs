@@ -81,10 +81,10 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
     // The plan: options, palette, profiles and gamut before any work.
     let sopts = a.survival.options()?;
     let format = Format::of_path(&a.palette);
-    if format == Format::Svg {
+    if matches!(format, Format::Svg | Format::Sld) {
         return Err(format!(
-            "{}: repair writes a palette back in its own shape, and SVG artwork is not rewritten; \
-             check the artwork, or repair a palette file of its colours",
+            "{}: repair writes a palette back in its own shape, and artwork and map styles are not rewritten; \
+             check it, or repair a palette file of its colours",
             a.palette.display()
         )
         .into());

@@ -150,7 +150,9 @@ fn render_usage(w: &mut dyn Write, r: &CheckReport) -> io::Result<()> {
         return Ok(());
     }
     let paints: usize = used.iter().map(|(_, u)| u.uses).sum();
-    writeln!(w, "artwork  {} distinct colours from {paints} paints", used.len())?;
+    if paints > used.len() {
+        writeln!(w, "artwork  {} distinct colours from {paints} paints", used.len())?;
+    }
     let see_through: Vec<String> = used
         .iter()
         .filter(|(_, u)| u.opacity < 1.0)

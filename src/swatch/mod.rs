@@ -6,6 +6,7 @@ pub mod order;
 pub mod repair;
 pub mod rewrite;
 pub mod separation;
+pub mod sld;
 pub mod survival;
 pub mod svg;
 
@@ -47,6 +48,10 @@ pub struct Palette {
     pub source: String,
     /// The entries in file order.
     pub entries: Vec<Entry>,
+    /// The kind of scheme the file's own shape says it is, if it says one
+    /// (a style that is only a raster colour map is sequential); `--scheme`
+    /// overrides it.
+    pub scheme_hint: Option<order::Scheme>,
 }
 
 /// Why a palette could not be read. Each names the file and, where it
@@ -166,6 +171,8 @@ pub enum Format {
     Text,
     /// SVG artwork: every paint it uses.
     Svg,
+    /// A map style: OGC SLD 1.0 or SE 1.1.
+    Sld,
 }
 
 impl Format {
@@ -181,6 +188,7 @@ impl Format {
             Some("csv" | "tsv") => Format::Csv,
             Some("json") => Format::Json,
             Some("svg") => Format::Svg,
+            Some("sld" | "se") => Format::Sld,
             _ => Format::Text,
         }
     }
@@ -205,11 +213,17 @@ impl Palette {
     /// at the start is ignored in every format.
     pub fn parse(file: &str, text: &str, format: Format) -> Result<Palette, PaletteError> {
         let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+        let mut scheme_hint = None;
         let entries = match format {
             Format::Csv => parse_csv(file, text)?,
             Format::Json => parse_json(file, text)?,
             Format::Text => parse_text(file, text)?,
             Format::Svg => svg::parse_svg(file, text)?,
+            Format::Sld => {
+                let (e, hint) = sld::parse_sld(file, text)?;
+                scheme_hint = hint;
+                e
+            }
         };
         if entries.is_empty() {
             return Err(PaletteError::Empty { file: file.to_string() });
@@ -224,6 +238,7 @@ impl Palette {
         Ok(Palette {
             source: file.to_string(),
             entries,
+            scheme_hint,
         })
     }
 }

@@ -491,6 +491,7 @@ fn with_positions(palette: &Palette, o: &[LabD50], x: &[LabD50], screen: &IccPro
     Ok(Palette {
         source: palette.source.clone(),
         entries,
+        scheme_hint: palette.scheme_hint,
     })
 }
 

@@ -398,7 +398,7 @@ impl Walker<'_> {
 /// skipped; a `>` inside a quoted attribute value does not end a tag; `/>`
 /// closes its own tag). A guard only: the XML parser checks everything
 /// else.
-fn too_deep(text: &str, limit: usize) -> Option<usize> {
+pub(crate) fn too_deep(text: &str, limit: usize) -> Option<usize> {
     let b = text.as_bytes();
     let find = |from: usize, pat: &[u8]| {
         b[from.min(b.len())..]
@@ -544,7 +544,7 @@ pub fn parse_svg(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             usage: Some(Usage {
                 uses: f.uses,
                 properties: f.properties.iter().map(|p| p.to_string()).collect(),
-                opacity: crate::precision::round(f.opacity, 3),
+                opacity: crate::precision::round(f.opacity, 3).max(0.001),
             }),
         })
         .collect())

@@ -1,0 +1,1 @@
+<StyledLayerDescriptor><Rule><RasterSymbolizer><ColorMap><ColorMapEntry color="#c4e0b8" quantity="1" opacity="0"/><ColorMapEntry color="#eef4e6" quantity="2"/></ColorMap></RasterSymbolizer></Rule></StyledLayerDescriptor>
