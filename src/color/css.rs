@@ -71,13 +71,7 @@ pub fn parse_color(text: &str) -> Result<ColorInput, ColorParseError> {
 /// the colour and its alpha (0..1; 1 when none is given). `transparent` is
 /// black with alpha 0, as CSS defines it.
 pub fn parse_color_with_alpha(text: &str) -> Result<(ColorInput, f64), ColorParseError> {
-    let t = text.trim();
-    let parsed = if t.eq_ignore_ascii_case("transparent") {
-        Ok((ColorInput::ScreenRgb([0.0; 3]), 0.0))
-    } else {
-        parse_inner(t)
-    };
-    parsed
+    parse_inner(text.trim())
         .and_then(|(c, a)| plausible(c).map(|c| (c, a)))
         .map_err(|expected| ColorParseError {
             input: text.to_string(),
@@ -127,7 +121,8 @@ fn parse_inner(t: &str) -> Result<(ColorInput, f64), String> {
             return Ok((ColorInput::ScreenRgb(rgb.map(|v| f64::from(v) / 255.0)), 1.0));
         }
         if t.eq_ignore_ascii_case("transparent") {
-            return Err(transparency("0"));
+            // CSS Color 4, 6.1.1: transparent black.
+            return Ok((ColorInput::ScreenRgb([0.0; 3]), 0.0));
         }
         if t.eq_ignore_ascii_case("currentcolor") {
             return Err("currentColor names the colour of the text around it, which a palette does not have".into());

@@ -82,14 +82,16 @@ impl BlackStrength {
     /// The value names, as the command line takes them.
     pub const NAMES: [&'static str; 3] = ["light", "medium", "strong"];
 
+    const ALL: [BlackStrength; 3] = [BlackStrength::Light, BlackStrength::Medium, BlackStrength::Strong];
+
     /// The strength of that name.
     pub fn from_name(name: &str) -> Option<BlackStrength> {
-        match name {
-            "light" => Some(BlackStrength::Light),
-            "medium" => Some(BlackStrength::Medium),
-            "strong" => Some(BlackStrength::Strong),
-            _ => None,
-        }
+        Self::ALL.into_iter().find(|b| b.name() == name)
+    }
+
+    /// Its value name, as the command line takes it (one of [`Self::NAMES`]).
+    pub fn name(self) -> &'static str {
+        Self::NAMES[self as usize]
     }
 
     /// The black generation curve, full black at `black_l` (the
@@ -532,15 +534,14 @@ fn fit_model(
         }
     }
     let n = 0.5 * (lo + hi);
-    let mut c = build(n)?;
+    let tone = tone_curves(prep, train, n, min_levels)?;
+    let c = PrintCondition::measured(spec_for(prep, opts, n), prep.primaries, tone.clone());
     // The spec records the tone value increase the fitted model prints.
     let mut spec = c.spec().clone();
     for ink in 0..4 {
         spec.tvi50[ink] = c.tone_value(ink, 0.5).unwrap_or(0.5) - 0.5;
     }
-    let tone = c.tone_curves().expect("measured").clone();
-    c = PrintCondition::measured(spec, prep.primaries, tone);
-    Ok(c)
+    Ok(PrintCondition::measured(spec, prep.primaries, tone))
 }
 
 fn residuals(prep: &Prepared, model: &PrintCondition, train: &[usize]) -> Vec<([f64; 4], [f64; 3])> {
@@ -597,21 +598,23 @@ pub fn fit(m: &Measurements, opts: &FitOptions) -> Result<(PrintCondition, FitRe
             held[k].extend(test.iter().map(|&i| (i, c.lab_relative(prep.samples[i].cmyk))));
         }
     }
-    let cv_errors = |k: usize| -> Vec<f64> {
-        held[k]
-            .iter()
-            .map(|(i, lab)| delta_e00(*lab, prep.samples[*i].lab_rel))
-            .collect()
-    };
-    let best = (0..SMOOTHING_CHOICES.len())
-        .min_by(|&a, &b| {
-            let mean = |k| {
-                let e = cv_errors(k);
-                e.iter().sum::<f64>() / e.len().max(1) as f64
-            };
-            mean(a).total_cmp(&mean(b))
+    // Held-out ΔE00 per smoothing choice, computed once; the choice with
+    // the smallest mean wins (the first on a tie).
+    let cv_errors: Vec<Vec<f64>> = held
+        .iter()
+        .map(|h| {
+            h.iter()
+                .map(|(i, lab)| delta_e00(*lab, prep.samples[*i].lab_rel))
+                .collect()
         })
-        .expect("choices");
+        .collect();
+    let mean = |e: &[f64]| e.iter().sum::<f64>() / e.len().max(1) as f64;
+    let mut best = 0;
+    for k in 1..cv_errors.len() {
+        if mean(&cv_errors[k]) < mean(&cv_errors[best]) {
+            best = k;
+        }
+    }
     let smoothing = SMOOTHING_CHOICES[best];
     let corr = Correction::fit(&residuals(&prep, &model, &all), CORRECTION_NODES, smoothing);
     let largest_correction = corr.largest_offset();
@@ -641,7 +644,7 @@ pub fn fit(m: &Measurements, opts: &FitOptions) -> Result<(PrintCondition, FitRe
     };
     let mut held_errors: Vec<PatchError> = held[best].iter().map(|(i, lab)| patch_error(*i, *lab)).collect();
     held_errors.sort_by(|a, b| b.delta_e00.total_cmp(&a.delta_e00).then(a.line.cmp(&b.line)));
-    let cv = ErrorStats::of(&cv_errors(best));
+    let cv = ErrorStats::of(&cv_errors[best]);
     let suspect_limit = SUSPECT_FLOOR_DE00.max(SUSPECT_FACTOR * cv.mean);
     let suspect = held_errors
         .iter()
@@ -704,6 +707,14 @@ mod tests {
         assert_eq!(corner_of([100.0, 0.2, 99.6, 0.0]), Some(5));
         assert_eq!(corner_of([50.0, 0.0, 0.0, 0.0]), None);
         assert_eq!(corner_name(11), "solid cyan + magenta + black");
+    }
+
+    #[test]
+    fn black_strength_names_round_trip() {
+        for name in BlackStrength::NAMES {
+            assert_eq!(BlackStrength::from_name(name).map(BlackStrength::name), Some(name));
+        }
+        assert_eq!(BlackStrength::from_name("heavy"), None);
     }
 
     #[test]

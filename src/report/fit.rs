@@ -70,11 +70,7 @@ pub fn render_fit(w: &mut dyn Write, r: &FitReport) -> io::Result<()> {
         w,
         "ink      limit {} % C+M+Y+K, {} black generation",
         fixed(r.ink_limit_percent, 0),
-        match r.black {
-            crate::press::fit::BlackStrength::Light => "light",
-            crate::press::fit::BlackStrength::Medium => "medium",
-            crate::press::fit::BlackStrength::Strong => "strong",
-        }
+        r.black.name()
     )?;
     writeln!(w)?;
     writeln!(w, "fit accuracy, CIEDE2000, media-relative")?;

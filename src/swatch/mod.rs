@@ -9,6 +9,7 @@ pub mod separation;
 pub mod sld;
 pub mod survival;
 pub mod svg;
+pub mod xml;
 
 use std::path::Path;
 
@@ -243,6 +244,12 @@ impl Palette {
     }
 }
 
+/// The 1-based line of byte `pos` of `text` (a position past the end counts
+/// as the end).
+pub(crate) fn line_at(text: &[u8], pos: usize) -> usize {
+    1 + text[..pos.min(text.len())].iter().filter(|&&b| b == b'\n').count()
+}
+
 /// The text of a palette file, read up to [`MAX_PALETTE_BYTES`].
 fn read_bounded(path: &Path, file: &str) -> Result<String, PaletteError> {
     use std::io::Read;
@@ -268,7 +275,7 @@ fn read_bounded(path: &Path, file: &str) -> Result<String, PaletteError> {
         let good = &e.as_bytes()[..e.utf8_error().valid_up_to()];
         PaletteError::NotText {
             file: file.to_string(),
-            line: 1 + good.iter().filter(|&&b| b == b'\n').count(),
+            line: line_at(good, good.len()),
         }
     })
 }
@@ -349,8 +356,9 @@ pub(crate) fn palette_color(input: &str) -> Result<ColorInput, ColorParseError> 
     })
 }
 
-/// The colour of a record of channel columns, as colour text and colour.
-fn channel_color(record: &csv::StringRecord, cols: ColourColumns) -> Result<String, String> {
+/// The colour text of a record: its colour-text field, or colour text made
+/// from its channel fields; what is wrong otherwise.
+fn record_color(record: &csv::StringRecord, cols: ColourColumns) -> Result<String, String> {
     let num = |c: usize, what: &str, max: f64| -> Result<f64, String> {
         let t = record.get(c).unwrap_or("").trim();
         let v: f64 = t.parse().map_err(|_| format!("{what} \"{t}\" is not a number"))?;
@@ -374,7 +382,11 @@ fn channel_color(record: &csv::StringRecord, cols: ColourColumns) -> Result<Stri
             num(y, "Y", 100.0)?,
             num(k, "K", 100.0)?
         )),
-        ColourColumns::Text(_) => Err("not a channel layout".into()),
+        ColourColumns::Text(c) => record
+            .get(c)
+            .filter(|s| !s.is_empty())
+            .map(str::to_string)
+            .ok_or_else(|| "the colour field is empty".to_string()),
     }
 }
 
@@ -422,14 +434,7 @@ fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
         if record.iter().all(str::is_empty) {
             continue;
         }
-        let input = match columns {
-            ColourColumns::Text(c) => record
-                .get(c)
-                .filter(|s| !s.is_empty())
-                .ok_or_else(|| syntax(line, "the colour field is empty".to_string()))?
-                .to_string(),
-            channels => channel_color(&record, channels).map_err(|m| syntax(line, m))?,
-        };
+        let input = record_color(&record, columns).map_err(|m| syntax(line, m))?;
         let color = palette_color(&input).map_err(|source| PaletteError::Color {
             file: file.to_string(),
             line,

@@ -21,16 +21,8 @@
 use roxmltree::Node;
 
 use super::order::Scheme;
-use super::svg::{too_deep, MAX_SVG_DEPTH, MAX_SVG_NODES};
-use super::{Entry, PaletteError, Usage};
+use super::{line_at, Entry, PaletteError, Usage};
 use crate::color::css::parse_color_with_alpha;
-
-fn line_of(text: &str, pos: usize) -> usize {
-    1 + text.as_bytes()[..pos.min(text.len())]
-        .iter()
-        .filter(|&&b| b == b'\n')
-        .count()
-}
 
 fn child<'a, 'i>(n: Node<'a, 'i>, name: &str) -> Option<Node<'a, 'i>> {
     n.children().find(|c| c.is_element() && c.tag_name().name() == name)
@@ -55,7 +47,7 @@ impl Reader<'_> {
     fn err(&self, n: Node<'_, '_>, message: String) -> PaletteError {
         PaletteError::Syntax {
             file: self.file.to_string(),
-            line: line_of(self.text, n.range().start),
+            line: line_at(self.text.as_bytes(), n.range().start),
             message,
         }
     }
@@ -71,7 +63,7 @@ impl Reader<'_> {
         opacity: f64,
         property: &str,
     ) -> Result<(), PaletteError> {
-        let line = line_of(self.text, n.range().start);
+        let line = line_at(self.text.as_bytes(), n.range().start);
         let (color, alpha) = parse_color_with_alpha(value).map_err(|source| PaletteError::Color {
             file: self.file.to_string(),
             line,
@@ -243,22 +235,7 @@ impl Reader<'_> {
 /// The colours of an SLD 1.0 or SE 1.1 document, and the scheme its shape
 /// suggests (sequential for a style that is only a colour map).
 pub fn parse_sld(file: &str, text: &str) -> Result<(Vec<Entry>, Option<Scheme>), PaletteError> {
-    if let Some(pos) = too_deep(text, MAX_SVG_DEPTH) {
-        return Err(PaletteError::Syntax {
-            file: file.to_string(),
-            line: line_of(text, pos),
-            message: format!("elements nested deeper than {MAX_SVG_DEPTH}; not a style inkfit reads"),
-        });
-    }
-    let opts = roxmltree::ParsingOptions {
-        allow_dtd: false,
-        nodes_limit: MAX_SVG_NODES,
-    };
-    let doc = roxmltree::Document::parse_with_options(text, opts).map_err(|e| PaletteError::Syntax {
-        file: file.to_string(),
-        line: e.pos().row as usize,
-        message: format!("not a style file inkfit reads: {e}"),
-    })?;
+    let doc = super::xml::document(file, text, "a style file")?;
     let mut r = Reader {
         file,
         text,

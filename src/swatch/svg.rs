@@ -30,12 +30,8 @@ use std::collections::HashMap;
 
 use simplecss::{AttributeOperator, PseudoClass, StyleSheet};
 
-use super::{Entry, PaletteError, Usage};
+use super::{line_at, Entry, PaletteError, Usage};
 use crate::color::css::{parse_color_with_alpha, ColorInput};
-
-/// Most XML nodes read from one SVG file (a large map export has some
-/// hundred thousand).
-pub const MAX_SVG_NODES: u32 = 2_000_000;
 
 /// Most text of `<style>` elements read, together: a map export's style
 /// sheet is a few to a few tens of KB. The CSS parser's time grows with the
@@ -44,10 +40,6 @@ pub const MAX_STYLE_BYTES: usize = 256 << 10;
 
 /// Longest `style` attribute read (the same reason as [`MAX_STYLE_BYTES`]).
 pub const MAX_STYLE_ATTRIBUTE_BYTES: usize = 16 << 10;
-
-/// Deepest element nesting read (map exports nest groups a few dozen deep);
-/// the tree is walked recursively, so this bounds the stack.
-pub const MAX_SVG_DEPTH: usize = 512;
 
 /// Most selector matches tried: style rules times elements. Each element is
 /// matched against every rule, so a hostile file with many rules and many
@@ -161,28 +153,13 @@ struct Walker<'s> {
     index: HashMap<String, usize>,
 }
 
-fn line_of(text: &str, pos: usize) -> usize {
-    1 + text.as_bytes()[..pos.min(text.len())]
-        .iter()
-        .filter(|&&b| b == b'\n')
-        .count()
-}
-
 impl<'s> Walker<'s> {
     fn walk(
         &mut self,
         node: roxmltree::Node<'s, 's>,
         parent: &[String; 11],
         group_opacity: f64,
-        depth: usize,
     ) -> Result<(), PaletteError> {
-        if depth > MAX_SVG_DEPTH {
-            return Err(PaletteError::Syntax {
-                file: self.file.to_string(),
-                line: line_of(self.doc_text, node.range().start),
-                message: format!("elements nested deeper than {MAX_SVG_DEPTH}; not a drawing inkfit reads"),
-            });
-        }
         let tag = node.tag_name().name();
         if matches!(
             tag,
@@ -223,7 +200,7 @@ impl<'s> Walker<'s> {
             if style.len() > MAX_STYLE_ATTRIBUTE_BYTES {
                 return Err(PaletteError::Syntax {
                     file: self.file.to_string(),
-                    line: line_of(self.doc_text, node.range().start),
+                    line: line_at(self.doc_text.as_bytes(), node.range().start),
                     message: format!(
                         "a style attribute of {} bytes; inkfit reads style attributes up to {} KiB",
                         style.len(),
@@ -264,7 +241,7 @@ impl<'s> Walker<'s> {
         }
         let own_opacity = number(&computed[OPACITY]).unwrap_or(1.0);
         let opacity = group_opacity * own_opacity;
-        let line = line_of(self.doc_text, node.range().start);
+        let line = line_at(self.doc_text.as_bytes(), node.range().start);
         let shape = SHAPES.contains(&tag);
         let of = |prop: usize, opacity: f64| Paint {
             prop,
@@ -287,7 +264,7 @@ impl<'s> Walker<'s> {
             _ => {}
         }
         for child in node.children().filter(roxmltree::Node::is_element) {
-            self.walk(child, &computed, opacity, depth + 1)?;
+            self.walk(child, &computed, opacity)?;
         }
         Ok(())
     }
@@ -392,64 +369,6 @@ impl Walker<'_> {
     }
 }
 
-/// Where the element nesting of XML text first goes deeper than `limit`,
-/// if it does: a scan of the tags alone (XML 1.0, 2.5, 2.7, 2.8, 3.1:
-/// comments, CDATA sections, processing instructions and declarations are
-/// skipped; a `>` inside a quoted attribute value does not end a tag; `/>`
-/// closes its own tag). A guard only: the XML parser checks everything
-/// else.
-pub(crate) fn too_deep(text: &str, limit: usize) -> Option<usize> {
-    let b = text.as_bytes();
-    let find = |from: usize, pat: &[u8]| {
-        b[from.min(b.len())..]
-            .windows(pat.len())
-            .position(|w| w == pat)
-            .map_or(b.len(), |p| from + p + pat.len())
-    };
-    let mut depth = 0usize;
-    let mut i = 0;
-    while i < b.len() {
-        if b[i] != b'<' {
-            i += 1;
-            continue;
-        }
-        let rest = &b[i..];
-        if rest.starts_with(b"<!--") {
-            i = find(i + 4, b"-->");
-        } else if rest.starts_with(b"<![CDATA[") {
-            i = find(i + 9, b"]]>");
-        } else if rest.starts_with(b"<?") {
-            i = find(i + 2, b"?>");
-        } else if rest.starts_with(b"<!") || rest.starts_with(b"</") {
-            if rest.starts_with(b"</") {
-                depth = depth.saturating_sub(1);
-            }
-            i = find(i + 2, b">");
-        } else {
-            let start = i;
-            let mut quote = None;
-            let mut j = i + 1;
-            while j < b.len() {
-                match (quote, b[j]) {
-                    (None, q @ (b'"' | b'\'')) => quote = Some(q),
-                    (Some(q), c) if c == q => quote = None,
-                    (None, b'>') => break,
-                    _ => {}
-                }
-                j += 1;
-            }
-            if j < b.len() && b[j - 1] != b'/' {
-                depth += 1;
-                if depth > limit {
-                    return Some(start);
-                }
-            }
-            i = j + 1;
-        }
-    }
-    None
-}
-
 /// Whether a selector, as simplecss writes it back (a class `.c` as
 /// `[class~='c']`), names class `c`.
 fn names_class(selector: &str, c: &str) -> bool {
@@ -469,25 +388,7 @@ fn number(v: &str) -> Option<f64> {
 /// The distinct colours of an SVG document, as palette entries in order of
 /// first use.
 pub fn parse_svg(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
-    // The XML parser recurses once per nesting level, so a file nested
-    // hundreds of thousands deep would overflow the stack inside it: the
-    // depth is bounded first.
-    if let Some(pos) = too_deep(text, MAX_SVG_DEPTH) {
-        return Err(PaletteError::Syntax {
-            file: file.to_string(),
-            line: line_of(text, pos),
-            message: format!("elements nested deeper than {MAX_SVG_DEPTH}; not a drawing inkfit reads"),
-        });
-    }
-    let opts = roxmltree::ParsingOptions {
-        allow_dtd: false,
-        nodes_limit: MAX_SVG_NODES,
-    };
-    let doc = roxmltree::Document::parse_with_options(text, opts).map_err(|e| PaletteError::Syntax {
-        file: file.to_string(),
-        line: e.pos().row as usize,
-        message: format!("not an SVG file inkfit reads: {e}"),
-    })?;
+    let doc = super::xml::document(file, text, "an SVG file")?;
     let root = doc.root_element();
     if root.tag_name().name() != "svg" {
         return Err(PaletteError::Format {
@@ -533,7 +434,7 @@ pub fn parse_svg(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
         index: HashMap::new(),
     };
     let initial: [String; 11] = INITIAL.map(str::to_string);
-    w.walk(root, &initial, 1.0, 0)?;
+    w.walk(root, &initial, 1.0)?;
     Ok(w.found
         .into_iter()
         .map(|f| Entry {
@@ -548,19 +449,4 @@ pub fn parse_svg(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             }),
         })
         .collect())
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn nesting_is_measured_from_the_tags() {
-        // Self-closing tags, end tags, comments, CDATA, processing
-        // instructions and quoted '>' do not deepen (XML 1.0, 2.5–3.1).
-        let t = "<?xml version='1.0'?><a><!-- <b><b> --><b x='>' y=\"/>\"/><![CDATA[<c><c>]]><c><d/></c></a>";
-        assert_eq!(too_deep(t, 2), None);
-        assert_eq!(too_deep(t, 1), Some(t.find("<c>").unwrap() + "<c><c>]]>".len()));
-        assert_eq!(too_deep(&"<g>".repeat(10), 9), Some(27));
-    }
 }
