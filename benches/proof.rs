@@ -6,8 +6,8 @@ use criterion::{criterion_group, criterion_main, Criterion, Throughput};
 use inkfit::icc::transform::PressMapping;
 use inkfit::icc::{IccProfile, RenderingIntent};
 use inkfit::proof::heat::HeatScale;
-use inkfit::proof::raster::{FileKind, Raster, RasterInfo};
 use inkfit::proof::{Method, ProofEngine};
+use inkfit::raster::{FileKind, Raster, RasterInfo};
 
 /// Half smooth ramps (many colours), half flat areas (few colours).
 fn sample(w: u32, h: u32) -> Raster {

@@ -7,12 +7,13 @@
 //! icc                     profiles (bounded reads, strict tag checks, built-ins), the one lcms2
 //!                         transform factory (icc::transform), inspection
 //! conditions              the header every check, proof and repair report opens with
+//! raster                  image files: bounded PNG/JPEG/TIFF reading and encoding
 //! gamut                   gamut solids, boundary meshes, nearest-point search, coverage, export
 //! press                   the built-in press conditions: spec, printing model, gamut mapping,
 //!                         inversion, ICC writer (the committed bytes live in icc::builtin)
-//! swatch                  palette files and palette analyses: check, separation, order,
-//!                         survival, repair, rewriting a palette in its own shape
-//! proof                   soft proofs of images: raster files, exact model, ΔE00 table, statistics
+//! swatch                  palette files, artwork, map styles and map rasters, and palette
+//!                         analyses: check, separation, order, survival, repair, rewriting
+//! proof                   soft proofs of images: exact model, ΔE00 table, statistics
 //! plot                    SVG figures: loci, outlines, sections, layout per kind
 //! report                  text tables and JSON for every result struct
 //! io                      the output guard: atomic, all-or-nothing writes, never over an input
@@ -63,5 +64,6 @@ pub mod plot;
 pub mod precision;
 pub mod press;
 pub mod proof;
+pub mod raster;
 pub mod report;
 pub mod swatch;

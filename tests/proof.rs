@@ -11,8 +11,8 @@ use image::codecs::tiff::{TiffDecoder, TiffEncoder};
 use image::{ExtendedColorType, ImageDecoder, ImageEncoder};
 use inkfit::icc::transform::PressMapping;
 use inkfit::icc::{IccProfile, RenderingIntent};
-use inkfit::proof::raster::{self, Raster};
 use inkfit::proof::{Method, ProofEngine};
+use inkfit::raster::{self, Raster};
 
 fn builtin(name: &str) -> IccProfile {
     IccProfile::load(name).unwrap()

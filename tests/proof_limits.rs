@@ -14,8 +14,8 @@ use image::{ExtendedColorType, ImageEncoder};
 use inkfit::icc::transform::PressMapping;
 use inkfit::icc::{IccProfile, Origin, RenderingIntent};
 use inkfit::proof::heat::HeatScale;
-use inkfit::proof::raster::{self, DecodeLimits, FileKind, RasterError};
 use inkfit::proof::{Method, ProofEngine};
+use inkfit::raster::{self, DecodeLimits, FileKind, RasterError};
 
 fn s(p: &Path) -> String {
     p.display().to_string()

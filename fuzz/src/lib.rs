@@ -106,6 +106,8 @@ pub fn palette(data: &[u8], format: Format) {
                             "property: usage {u:?}"
                         );
                     }
+                    // Images are not parsed from text.
+                    Format::MapImage | Format::Jpeg => panic!("property: an image format parsed as text"),
                 }
             }
         }

@@ -15,13 +15,15 @@ use crate::icc::transform::resolve_lab;
 use crate::icc::IccProfile;
 use crate::precision::round;
 use crate::report::{self, DeltaColor, DeltaReport};
+use crate::swatch::adjacency::read_adjacency;
 use crate::swatch::check::{check_against, CheckOptions};
+use crate::swatch::map_raster::MapOptions;
 use crate::swatch::Palette;
 
 /// The options of `check`.
 #[derive(Args, Debug)]
 pub struct CheckArgs {
-    /// Palette file: .csv (with a header naming a colour column), .json (array of {"name","color"}) or plain text.
+    /// Palette file: .csv/.tsv (a colour column, or R,G,B or C,M,Y,K columns), .json (array of {"name","color"}), plain text, SVG artwork (.svg), a map style (.sld, .se), or a rendered map image (.png, .tif) whose class colours are found.
     pub palette: PathBuf,
     /// The screen and press profiles.
     #[command(flatten)]
@@ -50,6 +52,15 @@ pub struct CheckArgs {
     /// The palette checks beyond the per-colour results.
     #[command(flatten)]
     pub survival: SurvivalArgs,
+    /// Which classes touch, for any palette: one pair a line, 'NAME | NAME' or 'NAME | NAME | BORDER_PX', names or entry numbers. Touching pairs are held to --min-separation, the others to --min-legend-separation. A map image brings its own.
+    #[arg(long, value_name = "FILE")]
+    pub touching: Option<PathBuf>,
+    /// Smallest printed ΔE00 between classes that never touch, when which classes touch is known (a map image or --touching). Default: half of --min-separation (our rule: they are told apart through the legend, not across a border).
+    #[arg(long, allow_negative_numbers = true, value_name = "ΔE00")]
+    pub min_legend_separation: Option<f64>,
+    /// For a map image: the smallest share of the map, in percent, a colour must cover to count as a class.
+    #[arg(long, allow_negative_numbers = true, value_name = "PERCENT", default_value_t = 100.0 * crate::swatch::map_raster::DEFAULT_MIN_CLASS_SHARE)]
+    pub min_class_share: f64,
 }
 
 /// The options of `delta`.
@@ -74,11 +85,32 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
     if let Some(p) = &a.svg {
         super::plot::check_svg_path(p)?;
     }
-    let palette = Palette::read(&a.palette)?;
+    if !(a.min_class_share.is_finite() && a.min_class_share > 0.0 && a.min_class_share <= 100.0) {
+        return Err(format!(
+            "--min-class-share must be a percentage above 0 and at most 100, not {}",
+            a.min_class_share
+        )
+        .into());
+    }
+    let map = MapOptions {
+        min_class_share: a.min_class_share / 100.0,
+        ..MapOptions::default()
+    };
+    let palette = Palette::read_with(&a.palette, &map)?;
     a.survival.scheme_for(&palette, &mut survival);
+    if let Some(v) = a.min_legend_separation {
+        survival.min_legend_separation = v;
+        survival.validate()?;
+    }
+    survival.adjacency = match &a.touching {
+        Some(f) => Some(read_adjacency(f, &palette.entries)?),
+        None => palette.adjacency.clone(),
+    };
     let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
-    let mut outputs = guarded_outputs(&[&a.palette], &[&screen, &press]);
+    let mut inputs = vec![a.palette.as_path()];
+    inputs.extend(a.touching.as_deref());
+    let mut outputs = guarded_outputs(&inputs, &[&screen, &press]);
     if let Some(p) = &a.svg {
         outputs.claim(p)?;
     }

@@ -192,6 +192,8 @@ impl SurvivalArgs {
                 })
                 .collect(),
             cvd_severity: self.cvd_severity,
+            min_legend_separation: self.min_separation / 2.0,
+            adjacency: None,
         };
         o.validate()?;
         Ok(o)

@@ -7,7 +7,7 @@
 //! # Memory
 //!
 //! Each image is refused from its header above `--max-pixels` (see
-//! [`crate::proof::raster`]). Images are proofed by one worker per thread of
+//! [`crate::raster`]). Images are proofed by one worker per thread of
 //! the pool, each image's pixels in parallel over the pool; a worker starts
 //! an image only while the estimated working memory of the images in
 //! progress, this one included, stays within [`WORKING_BUDGET`] (an image
@@ -32,9 +32,9 @@ use crate::icc::transform::PressMapping;
 use crate::icc::{Direction, IccError, IccProfile, Origin};
 use crate::io::Outputs;
 use crate::proof::heat::HeatScale;
-use crate::proof::raster::{self, DecodeLimits, FileKind, Raster, RasterError, RasterInfo, RgbImage};
 use crate::proof::result::{Channels, ImageReport, ProfileSource, ProofReport};
 use crate::proof::{check_embedded, Method, ProofEngine};
+use crate::raster::{self, DecodeLimits, FileKind, Raster, RasterError, RasterInfo, RgbImage};
 use crate::swatch::check::DEFAULT_TOLERANCE;
 
 #[derive(Args, Debug)]

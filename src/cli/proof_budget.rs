@@ -4,7 +4,7 @@
 
 use std::sync::{Condvar, Mutex};
 
-use crate::proof::raster::{FileKind, RasterInfo};
+use crate::raster::{FileKind, RasterInfo};
 
 /// Estimated working memory of the images proofed at once: 1 GiB. An image
 /// whose estimate alone is larger runs by itself.

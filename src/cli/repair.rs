@@ -81,9 +81,9 @@ pub fn run_repair(a: RepairArgs, out: &mut dyn Write) -> Result<Outcome, Error> 
     // The plan: options, palette, profiles and gamut before any work.
     let sopts = a.survival.options()?;
     let format = Format::of_path(&a.palette);
-    if matches!(format, Format::Svg | Format::Sld) {
+    if matches!(format, Format::Svg | Format::Sld | Format::MapImage | Format::Jpeg) {
         return Err(format!(
-            "{}: repair writes a palette back in its own shape, and artwork and map styles are not rewritten; \
+            "{}: repair writes a palette back in its own shape, and artwork, map styles and map images are not rewritten; \
              check it, or repair a palette file of its colours",
             a.palette.display()
         )

@@ -48,7 +48,7 @@
 
 mod exact;
 pub mod heat;
-pub mod raster;
+
 pub mod result;
 pub mod stats;
 mod table;
@@ -61,10 +61,10 @@ use crate::color::delta::NOTICEABLE_DE00;
 use crate::icc::header::{CLASS_OUTPUT, SPACE_CMYK, SPACE_GRAY, SPACE_LAB, SPACE_RGB, SPACE_XYZ};
 use crate::icc::transform::{self, PressMapping, Shared, Side};
 use crate::icc::{IccError, IccProfile};
+use crate::raster::Raster;
 use exact::at_fault;
 pub use exact::ExactModel;
 use heat::HeatScale;
-use raster::Raster;
 use stats::{bin_of, Tally};
 pub use table::DeltaTable;
 

@@ -69,9 +69,12 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
         writeln!(w, "note     {n}")?;
     }
     writeln!(w)?;
-    let mut t = Table::new(&[
-        ("#", Align::Right),
-        ("name", Align::Left),
+    let shares = r.entries.iter().any(|e| e.share.is_some());
+    let mut head = vec![("#", Align::Right), ("name", Align::Left)];
+    if shares {
+        head.push(("share", Align::Right));
+    }
+    head.extend([
         ("colour", Align::Left),
         ("screen L* a* b*", Align::Right),
         ("C", Align::Right),
@@ -84,11 +87,16 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
         ("gamut", Align::Left),
         ("verdict", Align::Left),
     ]);
+    let mut t = Table::new(&head);
     for (i, e) in r.entries.iter().enumerate() {
         let plain = |s: String| (s, Tone::Plain);
-        t.row(vec![
-            plain((i + 1).to_string()),
-            plain(e.name.clone()),
+        let mut row = vec![plain((i + 1).to_string()), plain(e.name.clone())];
+        if shares {
+            row.push(plain(
+                e.share.map_or(String::new(), |v| format!("{} %", fixed(100.0 * v, 1))),
+            ));
+        }
+        row.extend([
             plain(e.input.clone()),
             plain(lab3(e.screen_lab)),
             plain(fixed(e.press_cmyk[0], 0)),
@@ -114,6 +122,7 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
                 ("shifts".into(), Tone::Bad)
             },
         ]);
+        t.row(row);
     }
     t.write(w, color)?;
     let s = &r.summary;
@@ -135,6 +144,15 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
         s.worst,
         fixed(s.mean_delta_e00, 2)
     )?;
+    if let Some(u) = r.unclassified_share {
+        writeln!(
+            w,
+            "map      {} class colours hold {} % of the map; the other {} % is no class (text, lines, gradients, stray colours)",
+            s.count,
+            fixed(100.0 * (1.0 - u), 1),
+            fixed(100.0 * u, 1)
+        )?;
+    }
     render_usage(w, r)
 }
 

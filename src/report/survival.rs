@@ -4,36 +4,59 @@
 use std::io::{self, Write};
 
 use super::table::{Align, Table, Tone};
+use crate::swatch::adjacency::AdjacencySource;
 use crate::swatch::order::Order;
-use crate::swatch::separation::FlaggedPair;
+use crate::swatch::separation::{FlaggedPair, Separation};
 use crate::swatch::survival::{CvdReport, Survival, Verdict};
 
 use super::fixed as f;
 
-fn why(p: &FlaggedPair, floor: f64) -> String {
+fn why(p: &FlaggedPair) -> String {
+    let floor = match p.touching {
+        Some(false) => format!("legend floor {}", f(p.floor, 1)),
+        _ => f(p.floor, 1),
+    };
     match (p.below_floor, p.lost_half) {
-        (true, true) => format!("below {} and lost over half", f(floor, 1)),
-        (true, false) => format!("below {}", f(floor, 1)),
+        (true, true) => format!("below {floor} and lost over half"),
+        (true, false) => format!("below {floor}"),
         _ => "lost over half".to_string(),
     }
 }
 
-fn pair_table(w: &mut dyn Write, pairs: &[FlaggedPair], floor: f64, color: bool) -> io::Result<()> {
-    let mut t = Table::new(&[
-        ("pair", Align::Left),
-        ("names", Align::Left),
-        ("screen", Align::Right),
-        ("print", Align::Right),
-        ("why", Align::Left),
-    ]);
+/// How a pair lies on the map: "touch, 340 px", "touch" or "apart".
+fn lies(p: &FlaggedPair) -> String {
+    match p.touching {
+        Some(true) => match p.border_px {
+            Some(b) => format!("touch, {b} px"),
+            None => "touch".to_string(),
+        },
+        Some(false) => "apart".to_string(),
+        None => String::new(),
+    }
+}
+
+fn pair_table(w: &mut dyn Write, pairs: &[FlaggedPair], sep: &Separation, color: bool) -> io::Result<()> {
+    let map = sep.adjacency.is_some();
+    let mut head = vec![("pair", Align::Left), ("names", Align::Left)];
+    if map {
+        head.push(("on the map", Align::Left));
+    }
+    head.extend([("screen", Align::Right), ("print", Align::Right), ("why", Align::Left)]);
+    let mut t = Table::new(&head);
     for p in pairs {
-        t.row(vec![
+        let mut row = vec![
             (format!("{}–{}", p.a, p.b), Tone::Plain),
             (format!("{} / {}", p.a_name, p.b_name), Tone::Plain),
+        ];
+        if map {
+            row.push((lies(p), Tone::Plain));
+        }
+        row.extend([
             (f(p.screen, 2), Tone::Plain),
             (f(p.print, 2), if p.below_floor { Tone::Bad } else { Tone::Plain }),
-            (why(p, floor), Tone::Bad),
+            (why(p), Tone::Bad),
         ]);
+        t.row(row);
     }
     t.write(w, color)
 }
@@ -45,7 +68,7 @@ pub fn render_survival(w: &mut dyn Write, s: &Survival, names: &[String], color:
         render_order(w, o, color)?;
     }
     if let Some(c) = &s.cvd {
-        render_cvd(w, c, s.separation.min_separation, color)?;
+        render_cvd(w, c, &s.separation, color)?;
     }
     render_palette_verdict(w, s)
 }
@@ -56,12 +79,26 @@ fn render_separation(w: &mut dyn Write, s: &Survival, names: &[String], color: b
     let name = |i: usize| names.get(i.wrapping_sub(1)).map_or("?", |n| n.as_str());
     let pair_words = |p: Option<[usize; 2]>| p.map_or(String::new(), |[a, b]| format!(" ({} / {})", name(a), name(b)));
     writeln!(w)?;
-    writeln!(
-        w,
-        "separation  {} scheme, floor ΔE00 {} between every pair (a rule of thumb for classes told apart at a glance)",
-        s.scheme,
-        f(sep.min_separation, 1)
-    )?;
+    match (sep.adjacency, sep.min_legend_separation, sep.touching_pairs) {
+        (Some(source), Some(legend), Some(touching)) => writeln!(
+            w,
+            "separation  {} scheme, floor ΔE00 {} between the {touching} pair{} of classes that touch ({}), legend floor {} between the others",
+            s.scheme,
+            f(sep.min_separation, 1),
+            if touching == 1 { "" } else { "s" },
+            match source {
+                AdjacencySource::Map => "found on the map",
+                AdjacencySource::File => "as the adjacency file gives them",
+            },
+            f(legend, 1)
+        )?,
+        _ => writeln!(
+            w,
+            "separation  {} scheme, floor ΔE00 {} between every pair (a rule of thumb for classes told apart at a glance)",
+            s.scheme,
+            f(sep.min_separation, 1)
+        )?,
+    }
     let collapsed: Vec<FlaggedPair> = sep.flagged.iter().filter(|p| p.below_floor).cloned().collect();
     if collapsed.is_empty() {
         writeln!(w, "  no pair collapses in print")?;
@@ -75,12 +112,12 @@ fn render_separation(w: &mut dyn Write, s: &Survival, names: &[String], color: b
                 format!("{} pairs", collapsed.len())
             }
         )?;
-        pair_table(w, &collapsed, sep.min_separation, color)?;
+        pair_table(w, &collapsed, sep, color)?;
     }
     let halved: Vec<FlaggedPair> = sep.flagged.iter().filter(|p| !p.below_floor).cloned().collect();
     if !halved.is_empty() {
         writeln!(w, "  still above the floor but lost over half their screen difference:")?;
-        pair_table(w, &halved, sep.min_separation, color)?;
+        pair_table(w, &halved, sep, color)?;
     }
     writeln!(
         w,
@@ -169,7 +206,7 @@ fn render_order(w: &mut dyn Write, o: &Order, color: bool) -> io::Result<()> {
 }
 
 /// The colour-vision deficiency section.
-fn render_cvd(w: &mut dyn Write, c: &CvdReport, min_separation: f64, color: bool) -> io::Result<()> {
+fn render_cvd(w: &mut dyn Write, c: &CvdReport, sep: &Separation, color: bool) -> io::Result<()> {
     writeln!(w)?;
     writeln!(
         w,
@@ -186,7 +223,7 @@ fn render_cvd(w: &mut dyn Write, c: &CvdReport, min_separation: f64, color: bool
             if r.flagged.len() == 1 { "" } else { "s" }
         )?;
         if !r.flagged.is_empty() {
-            pair_table(w, &r.flagged, min_separation, color)?;
+            pair_table(w, &r.flagged, sep, color)?;
         }
     }
     Ok(())

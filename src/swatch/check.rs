@@ -111,6 +111,9 @@ pub struct CheckedEntry {
     /// absent for a palette file.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub usage: Option<crate::swatch::Usage>,
+    /// For a map image, the share of the map the class covers (0..1).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub share: Option<f64>,
 }
 
 /// Counts and ΔE00 figures over all entries of a check.
@@ -178,6 +181,10 @@ pub struct CheckReport {
     pub entries: Vec<CheckedEntry>,
     /// Counts and ΔE00 figures over all entries.
     pub summary: CheckSummary,
+    /// For a map image: the share of the map no class covers (text,
+    /// gradients, stray colours).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub unclassified_share: Option<f64>,
 }
 
 /// Runs the check of `palette` from `screen` onto `press` with the
@@ -237,6 +244,7 @@ pub fn check_against(
         ),
         ink_limit: opts.ink_limit.map(CheckInkLimit::from),
         summary: summarise(&entries),
+        unclassified_share: palette.unclassified_share.map(|v| round(v, 4)),
         entries,
     })
 }
@@ -377,6 +385,7 @@ fn checked_entry(
         outside_by: outside_by.map(|d| round(d, 2)),
         within_tolerance: de <= tolerance,
         usage: e.usage.clone(),
+        share: e.share.map(|v| round(v, 4)),
     })
 }
 

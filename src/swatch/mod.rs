@@ -1,7 +1,9 @@
 //! Palettes: reading palette files (CSV, JSON, plain text) into named colour
 //! entries in file order, and the analyses over them.
 
+pub mod adjacency;
 pub mod check;
+pub mod map_raster;
 pub mod order;
 pub mod repair;
 pub mod rewrite;
@@ -28,6 +30,8 @@ pub struct Entry {
     pub line: usize,
     /// How artwork uses the colour; `None` for a palette file.
     pub usage: Option<Usage>,
+    /// The share of a map image the class covers (0..1); `None` elsewhere.
+    pub share: Option<f64>,
 }
 
 /// How artwork uses one of its colours.
@@ -53,6 +57,10 @@ pub struct Palette {
     /// (a style that is only a raster colour map is sequential); `--scheme`
     /// overrides it.
     pub scheme_hint: Option<order::Scheme>,
+    /// Which entries touch on the map, for a map image.
+    pub adjacency: Option<adjacency::Adjacency>,
+    /// For a map image, the share of the map no class covers.
+    pub unclassified_share: Option<f64>,
 }
 
 /// Why a palette could not be read. Each names the file and, where it
@@ -174,11 +182,16 @@ pub enum Format {
     Svg,
     /// A map style: OGC SLD 1.0 or SE 1.1.
     Sld,
+    /// A rendered map: PNG or TIFF.
+    MapImage,
+    /// A JPEG image, refused: its lossy compression leaves no flat class colours.
+    Jpeg,
 }
 
 impl Format {
     /// By extension: `.csv` or `.tsv` (delimited, the delimiter sniffed),
-    /// `.json`; anything else is plain text.
+    /// `.json`, `.svg`, `.sld` or `.se`, `.png`, `.tif` or `.tiff` (a map
+    /// image); anything else is plain text.
     pub fn of_path(path: &Path) -> Format {
         match path
             .extension()
@@ -190,21 +203,45 @@ impl Format {
             Some("json") => Format::Json,
             Some("svg") => Format::Svg,
             Some("sld" | "se") => Format::Sld,
+            Some("png" | "tif" | "tiff") => Format::MapImage,
+            Some("jpg" | "jpeg") => Format::Jpeg,
             _ => Format::Text,
         }
     }
 }
 
 impl Palette {
-    /// Reads a palette file, choosing the format by extension.
+    /// Reads a palette file, choosing the format by extension; a map image
+    /// with the default [`map_raster::MapOptions`].
     pub fn read(path: &Path) -> Result<Palette, PaletteError> {
-        Palette::read_with_text(path).map(|(p, _)| p)
+        Palette::read_with(path, &map_raster::MapOptions::default())
     }
 
-    /// Reads a palette file and also returns its text, for writing it back
-    /// in its own shape ([`rewrite`]).
+    /// Reads a palette file, choosing the format by extension; a map image
+    /// with `map`.
+    pub fn read_with(path: &Path, map: &map_raster::MapOptions) -> Result<Palette, PaletteError> {
+        match Format::of_path(path) {
+            Format::MapImage => map_raster::read_map(path, map),
+            _ => Palette::read_with_text(path).map(|(p, _)| p),
+        }
+    }
+
+    /// Reads a text palette file and also returns its text, for writing it
+    /// back in its own shape ([`rewrite`]).
     pub fn read_with_text(path: &Path) -> Result<(Palette, String), PaletteError> {
         let file = path.display().to_string();
+        if let Some(message) = match Format::of_path(path) {
+            Format::MapImage => Some("a map image, not a text palette"),
+            Format::Jpeg => Some(
+                "a JPEG image: its lossy compression leaves no flat class colours to find; export the map as PNG or TIFF",
+            ),
+            _ => None,
+        } {
+            return Err(PaletteError::Format {
+                file,
+                message: message.to_string(),
+            });
+        }
         let text = read_bounded(path, &file)?;
         let p = Palette::parse(&file, &text, Format::of_path(path))?;
         Ok((p, text))
@@ -220,6 +257,12 @@ impl Palette {
             Format::Json => parse_json(file, text)?,
             Format::Text => parse_text(file, text)?,
             Format::Svg => svg::parse_svg(file, text)?,
+            Format::MapImage | Format::Jpeg => {
+                return Err(PaletteError::Format {
+                    file: file.to_string(),
+                    message: "an image is read from its file, not as text".to_string(),
+                })
+            }
             Format::Sld => {
                 let (e, hint) = sld::parse_sld(file, text)?;
                 scheme_hint = hint;
@@ -240,6 +283,8 @@ impl Palette {
             source: file.to_string(),
             entries,
             scheme_hint,
+            adjacency: None,
+            unclassified_share: None,
         })
     }
 }
@@ -252,6 +297,11 @@ pub(crate) fn line_at(text: &[u8], pos: usize) -> usize {
 
 /// The text of a palette file, read up to [`MAX_PALETTE_BYTES`].
 fn read_bounded(path: &Path, file: &str) -> Result<String, PaletteError> {
+    read_bounded_max(path, file, MAX_PALETTE_BYTES)
+}
+
+/// The text of a file, read up to `max` bytes.
+fn read_bounded_max(path: &Path, file: &str, max: u64) -> Result<String, PaletteError> {
     use std::io::Read;
     let read_err = |source| PaletteError::Read {
         file: file.to_string(),
@@ -262,13 +312,11 @@ fn read_bounded(path: &Path, file: &str) -> Result<String, PaletteError> {
     }
     let f = std::fs::File::open(path).map_err(read_err)?;
     let mut bytes = Vec::new();
-    f.take(MAX_PALETTE_BYTES + 1)
-        .read_to_end(&mut bytes)
-        .map_err(read_err)?;
-    if bytes.len() as u64 > MAX_PALETTE_BYTES {
+    f.take(max + 1).read_to_end(&mut bytes).map_err(read_err)?;
+    if bytes.len() as u64 > max {
         return Err(PaletteError::TooLarge {
             file: file.to_string(),
-            limit: MAX_PALETTE_BYTES >> 20,
+            limit: max >> 20,
         });
     }
     String::from_utf8(bytes).map_err(|e| {
@@ -450,6 +498,7 @@ fn parse_csv(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             color,
             line,
             usage: None,
+            share: None,
         });
     }
     Ok(entries)
@@ -495,6 +544,7 @@ fn parse_json(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             color,
             line: n,
             usage: None,
+            share: None,
         });
     }
     Ok(entries)
@@ -576,6 +626,7 @@ fn parse_text(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             color,
             line,
             usage: None,
+            share: None,
         });
     }
     Ok(entries)

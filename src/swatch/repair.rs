@@ -485,6 +485,7 @@ fn with_positions(palette: &Palette, o: &[LabD50], x: &[LabD50], screen: &IccPro
                 color: ColorInput::ScreenRgb(b.map(|v| f64::from(v) / 255.0)),
                 line: e.line,
                 usage: e.usage.clone(),
+                share: e.share,
             }
         })
         .collect();
@@ -492,6 +493,8 @@ fn with_positions(palette: &Palette, o: &[LabD50], x: &[LabD50], screen: &IccPro
         source: palette.source.clone(),
         entries,
         scheme_hint: palette.scheme_hint,
+        adjacency: palette.adjacency.clone(),
+        unclassified_share: palette.unclassified_share,
     })
 }
 

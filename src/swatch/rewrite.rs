@@ -52,7 +52,9 @@ pub fn rewrite(w: &mut dyn Write, format: Format, text: &str, rewrites: &[Rewrit
         Format::Csv => rewrite_csv(w, text, rewrites),
         Format::Json => rewrite_json(w, text, rewrites),
         Format::Text => rewrite_text(w, text, rewrites, heading),
-        Format::Svg | Format::Sld => Err(invalid("artwork and map styles are not written back")),
+        Format::Svg | Format::Sld | Format::MapImage | Format::Jpeg => {
+            Err(invalid("artwork, map styles and map images are not written back"))
+        }
     }
 }
 

@@ -83,6 +83,7 @@ impl Reader<'_> {
                 properties: vec![property.to_string()],
                 opacity: crate::precision::round(opacity, 3).max(0.001),
             }),
+            share: None,
         });
         Ok(())
     }

@@ -4,9 +4,10 @@
 
 use serde::Serialize;
 
+use super::adjacency::Adjacency;
 use super::check::CheckReport;
 use super::order::{order, Order, Scheme};
-use super::separation::{separation, FlaggedPair, Separation};
+use super::separation::{separation, FlaggedPair, Separation, SeparationRule};
 use crate::color::cvd::{Deficiency, Simulator};
 use crate::color::LabD50;
 use crate::precision::round;
@@ -16,8 +17,13 @@ use crate::precision::round;
 pub struct SurvivalOptions {
     /// The kind of palette, which decides whether the order checks apply.
     pub scheme: Scheme,
-    /// ΔE00 floor for every pair in print.
+    /// ΔE00 floor for every pair in print, or for touching pairs when
+    /// `adjacency` is known.
     pub min_separation: f64,
+    /// ΔE00 floor for pairs that do not touch, when `adjacency` is known.
+    pub min_legend_separation: f64,
+    /// Which entries touch on the map, when known.
+    pub adjacency: Option<Adjacency>,
     /// ΔE00 floor for neighbouring steps of ordered schemes.
     pub min_step: f64,
     /// Deficiencies to simulate (each at most once; reported in the order
@@ -32,6 +38,8 @@ impl Default for SurvivalOptions {
         SurvivalOptions {
             scheme: Scheme::Qualitative,
             min_separation: super::separation::DEFAULT_MIN_SEPARATION,
+            min_legend_separation: super::separation::DEFAULT_MIN_LEGEND_SEPARATION,
+            adjacency: None,
             min_step: super::order::DEFAULT_MIN_STEP,
             cvd: Vec::new(),
             cvd_severity: 1.0,
@@ -45,6 +53,9 @@ pub enum SurvivalError {
     /// The separation floor is negative or not a number.
     #[error("--min-separation must be a ΔE00 of 0 or more, not {0}")]
     MinSeparation(f64),
+    /// The legend floor is negative, not a number or above the separation floor.
+    #[error("--min-legend-separation must be a ΔE00 from 0 to --min-separation ({1}), not {0}")]
+    MinLegendSeparation(f64, f64),
     /// The minimum step is negative or not a number.
     #[error("--min-step must be a ΔE00 of 0 or more, not {0}")]
     MinStep(f64),
@@ -59,6 +70,12 @@ impl SurvivalOptions {
         let ok = |v: f64| v.is_finite() && v >= 0.0;
         if !ok(self.min_separation) {
             return Err(SurvivalError::MinSeparation(self.min_separation));
+        }
+        if !(ok(self.min_legend_separation) && self.min_legend_separation <= self.min_separation) {
+            return Err(SurvivalError::MinLegendSeparation(
+                self.min_legend_separation,
+                self.min_separation,
+            ));
         }
         if !ok(self.min_step) {
             return Err(SurvivalError::MinStep(self.min_step));
@@ -76,6 +93,15 @@ impl SurvivalOptions {
             .filter(|d| self.cvd.contains(d))
             .filter_map(|d| Simulator::new(d, self.cvd_severity))
             .collect()
+    }
+
+    /// The floors pairs are held to.
+    pub fn rule(&self) -> SeparationRule<'_> {
+        SeparationRule {
+            floor: self.min_separation,
+            legend_floor: self.min_legend_separation,
+            adjacency: self.adjacency.as_ref(),
+        }
     }
 }
 
@@ -179,11 +205,17 @@ pub struct Survival {
 }
 
 /// CVD separation: simulate both the screen and the printed colours.
-pub fn cvd_separation(sim: &Simulator, names: &[String], screen: &[LabD50], print: &[LabD50], floor: f64) -> CvdResult {
+pub fn cvd_separation(
+    sim: &Simulator,
+    names: &[String],
+    screen: &[LabD50],
+    print: &[LabD50],
+    rule: &SeparationRule<'_>,
+) -> CvdResult {
     let s: Vec<LabD50> = screen.iter().map(|&l| sim.lab(l)).collect();
     let p: Vec<LabD50> = print.iter().map(|&l| sim.lab(l)).collect();
     // The same pair analysis as for normal vision, on the simulated colours.
-    let sep = separation(names, &s, &p, floor);
+    let sep = separation(names, &s, &p, rule);
     CvdResult {
         severity: sim.severity,
         simulated_lab: p.iter().map(|l| l.to_array().map(|v| round(v, 2))).collect(),
@@ -195,13 +227,14 @@ pub fn cvd_separation(sim: &Simulator, names: &[String], screen: &[LabD50], prin
 
 /// The whole analysis over screen and printed CIELAB in file order.
 pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &SurvivalOptions) -> Survival {
-    let sep = separation(names, screen, print, opts.min_separation);
+    let rule = opts.rule();
+    let sep = separation(names, screen, print, &rule);
     let ord = order(opts.scheme, screen, print, opts.min_step);
     let sims = opts.simulators();
     let cvd = (!sims.is_empty()).then(|| {
         let mut r = CvdReport::default();
         for s in &sims {
-            let res = Some(cvd_separation(s, names, screen, print, opts.min_separation));
+            let res = Some(cvd_separation(s, names, screen, print, &rule));
             match s.deficiency {
                 Deficiency::Protan => r.protan = res,
                 Deficiency::Deutan => r.deutan = res,

@@ -447,6 +447,7 @@ pub fn parse_svg(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
                 properties: f.properties.iter().map(|p| p.to_string()).collect(),
                 opacity: crate::precision::round(f.opacity, 3).max(0.001),
             }),
+            share: None,
         })
         .collect())
 }

@@ -1,7 +1,7 @@
 //! Writes the generated seeds of the fuzz corpora: small ICC profiles of
 //! every kind inkfit meets (matrix/TRC RGB v2 and v4, grey, Lab, XYZ, a tiny
 //! CMYK output profile as v4 lutAToB/lutBToA and as v2 lut16) and tiny PNG,
-//! JPEG and TIFF images in every layout `proof::raster` reads (grey, grey +
+//! JPEG and TIFF images in every layout `raster` reads (grey, grey +
 //! alpha, RGB, RGBA, 8 and 16 bits, indexed and 1-bit PNG, CMYK TIFF, with
 //! and without an embedded profile, compressed and not).
 //!
