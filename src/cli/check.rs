@@ -58,6 +58,9 @@ pub struct CheckArgs {
     /// Smallest printed ΔE00 between classes that never touch, when which classes touch is known (a map image or --touching). Default: half of --min-separation (our rule: they are told apart through the legend, not across a border).
     #[arg(long, allow_negative_numbers = true, value_name = "ΔE00")]
     pub min_legend_separation: Option<f64>,
+    /// For a map image: name its classes from a palette file (the map's legend); a class whose colour is an entry's colour takes the entry's name.
+    #[arg(long, value_name = "PALETTE")]
+    pub class_names: Option<PathBuf>,
     /// For a map image: the smallest share of the map, in percent, a colour must cover to count as a class.
     #[arg(long, allow_negative_numbers = true, value_name = "PERCENT", default_value_t = 100.0 * crate::swatch::map_raster::DEFAULT_MIN_CLASS_SHARE)]
     pub min_class_share: f64,
@@ -96,7 +99,18 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
         min_class_share: a.min_class_share / 100.0,
         ..MapOptions::default()
     };
-    let palette = Palette::read_with(&a.palette, &map)?;
+    let mut palette = Palette::read_with(&a.palette, &map)?;
+    if let Some(f) = &a.class_names {
+        if palette.unclassified_share.is_none() {
+            return Err(format!(
+                "--class-names names the classes of a map image (.png, .tif); {} is a palette with names of its own",
+                a.palette.display()
+            )
+            .into());
+        }
+        let legend = Palette::read(f)?;
+        crate::swatch::map_raster::name_classes(&mut palette, &legend);
+    }
     a.survival.scheme_for(&palette, &mut survival);
     if let Some(v) = a.min_legend_separation {
         survival.min_legend_separation = v;
@@ -110,6 +124,7 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
     let press = IccProfile::load(&a.profiles.press)?.require_press()?;
     let mut inputs = vec![a.palette.as_path()];
     inputs.extend(a.touching.as_deref());
+    inputs.extend(a.class_names.as_deref());
     let mut outputs = guarded_outputs(&inputs, &[&screen, &press]);
     if let Some(p) = &a.svg {
         outputs.claim(p)?;

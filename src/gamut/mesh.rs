@@ -234,10 +234,12 @@ fn march_tetrahedron(
     }
 }
 
-/// Nearest boundary point in CIEDE2000, found coarse to fine: the vertices
-/// are bucketed in cubes of `BUCKET` CIELAB units; the buckets whose centroid
-/// is nearest (ΔE00) are searched vertex by vertex, and the triangles around
-/// the best vertex are then sampled on a fine barycentric grid.
+/// Nearest boundary point in CIEDE2000, found by branch and bound: the
+/// vertices are bucketed in cubes of `BUCKET` CIELAB units, each split into
+/// cubes of `SUB_BUCKET`; buckets and, within them, sub-buckets are searched
+/// vertex by vertex in the order of a lower bound on their vertices'
+/// distance, until the bound passes the nearest vertex found; the triangles
+/// around the best vertex are then sampled on a fine barycentric grid.
 #[derive(Clone, Debug)]
 pub struct Locator {
     mesh: Mesh,
@@ -249,55 +251,103 @@ pub struct Locator {
 #[derive(Clone, Debug)]
 struct Bucket {
     centroid: LabD50,
+    /// The largest CIELAB distance from the centroid to a vertex.
+    radius: f64,
+    subs: Vec<Sub>,
+}
+
+/// A sub-bucket: a `SUB_BUCKET` cube's vertices and their centroid.
+#[derive(Clone, Debug)]
+struct Sub {
+    centroid: LabD50,
+    /// The largest CIELAB distance from the centroid to a vertex.
+    radius: f64,
     vertices: Vec<u32>,
+}
+
+fn centroid(vertices: &[u32], all: &[[f64; 3]]) -> LabD50 {
+    let mut c = [0.0; 3];
+    for &i in vertices {
+        for (cd, v) in c.iter_mut().zip(all[i as usize]) {
+            *cd += v / vertices.len() as f64;
+        }
+    }
+    LabD50::from_array(c)
+}
+
+/// Groups `vertices` by the `edge`-unit cube they lie in, cubes in order
+/// (sorted, not hashed: a mesh has some 10⁵ vertices).
+fn cubes(vertices: impl Iterator<Item = u32>, all: &[[f64; 3]], edge: f64) -> Vec<Vec<u32>> {
+    let mut keyed: Vec<([i64; 3], u32)> = vertices
+        .map(|i| (all[i as usize].map(|c| (c / edge).floor() as i64), i))
+        .collect();
+    keyed.sort_unstable();
+    keyed
+        .chunk_by(|a, b| a.0 == b.0)
+        .map(|run| run.iter().map(|&(_, i)| i).collect())
+        .collect()
 }
 
 /// Edge of a search bucket, CIELAB units.
 const BUCKET: f64 = 6.0;
-/// At least this many of the nearest buckets are searched vertex by vertex …
+/// At least this many buckets are searched, the lowest bounds first, and
+/// then every bucket that may hold the nearest vertex.
 const BUCKETS_SEARCHED: usize = 12;
-/// … and every bucket whose centroid is within this ΔE00 of the nearest
-/// centroid. A bucket's vertices lie within r = √3·6/2 ≈ 5.2 CIELAB units
-/// of its centroid, so the bucket of the nearest vertex cannot be skipped
-/// when the margin is at least 2·f·r, with f the largest ratio ΔE00 / ΔE*ab
-/// over differences of that size. ΔE00 is not bounded by ΔE*ab (Sharma, Wu
-/// and Dalal 2005, eqs. 2–3 and 19–22): a* is stretched by 1 + G with
-/// G = ½(1 − R_C), R_C = √(C̄⁷/(C̄⁷ + 25⁷)), and the rotation term adds
-/// R_T·ΔC′ΔH′ with |R_T| ≤ 2·sin 60°·R_C ≤ √3·R_C, at most
-/// (√3/2)·R_C·(ΔC′² + ΔH′²). With S_L, S_C, S_H ≥ 1 this gives
-/// f ≤ (1.5 − 0.5·R_C)·√(1 + 0.866·R_C), whose largest value over
-/// 0 ≤ R_C ≤ 1 is 1.52 (at R_C ≈ 0.25; 1.5 on the neutral axis). The
-/// margin uses f = 1.55.
-const BUCKET_MARGIN: f64 = 2.0 * 1.55 * 5.2;
+/// The bounds rest on
+/// f, the largest ratio ΔE00 / ΔE*ab over differences of a few units: a
+/// vertex within r CIELAB units of its bucket's centroid is within f·r ΔE00
+/// of it. ΔE00 is not bounded by ΔE*ab (Sharma, Wu and Dalal 2005, eqs. 2–3
+/// and 19–22): a* is stretched by 1 + G with G = ½(1 − R_C),
+/// R_C = √(C̄⁷/(C̄⁷ + 25⁷)), and the rotation term adds R_T·ΔC′ΔH′ with
+/// |R_T| ≤ 2·sin 60°·R_C ≤ √3·R_C, at most (√3/2)·R_C·(ΔC′² + ΔH′²). With
+/// S_L, S_C, S_H ≥ 1 this gives f ≤ (1.5 − 0.5·R_C)·√(1 + 0.866·R_C), whose
+/// largest value over 0 ≤ R_C ≤ 1 is 1.52 (at R_C ≈ 0.25; 1.5 on the
+/// neutral axis). The bounds use f = 1.55: a vertex of a cell (bucket or
+/// sub-bucket) whose vertices lie within r CIELAB units of its centroid c is
+/// at least d(c) − f·r from the colour searched for, taking the triangle
+/// inequality to hold for CIEDE2000 over differences this small.
+const F_DE00_PER_DE_AB: f64 = 1.55;
+/// The branch and bound is trusted up to this ΔE00; a colour farther out is
+/// searched again with the wide margins. Beyond CIEDE2000's range of a few
+/// units the triangle inequality the bounds take fails more and more: on
+/// 2,000 random CIELAB colours outside the built-in press gamut, the bound
+/// missed the nearest vertex for 15 colours, all more than 13.8 out.
+const TIGHT_SEARCH_UP_TO: f64 = 10.0;
+/// Edge of a sub-bucket, CIELAB units.
+const SUB_BUCKET: f64 = 2.0;
 /// Barycentric steps per triangle edge in the final refinement.
 const REFINE_STEPS: usize = 8;
 
 impl Locator {
     /// Buckets the mesh's vertices for the search.
     pub fn new(mesh: Mesh) -> Locator {
-        let mut map: HashMap<[i64; 3], Vec<u32>> = HashMap::new();
-        for (i, v) in mesh.vertices.iter().enumerate() {
-            let key = v.map(|c| (c / BUCKET).floor() as i64);
-            map.entry(key).or_default().push(i as u32);
-        }
-        let mut keys: Vec<_> = map.keys().copied().collect();
-        keys.sort_unstable();
-        let buckets = keys
+        let all = &mesh.vertices;
+        let radius = |c: LabD50, v: &[u32]| {
+            v.iter()
+                .map(|&i| crate::color::delta::delta_e76(c, LabD50::from_array(all[i as usize])))
+                .fold(0.0, f64::max)
+        };
+        let buckets = cubes(0..all.len() as u32, all, BUCKET)
             .into_iter()
-            .map(|k| {
-                let vertices = map.remove(&k).unwrap_or_default();
-                let mut c = [0.0; 3];
-                for &i in &vertices {
-                    for (cd, v) in c.iter_mut().zip(mesh.vertices[i as usize]) {
-                        *cd += v / vertices.len() as f64;
-                    }
-                }
+            .map(|vertices| {
+                let c = centroid(&vertices, all);
                 Bucket {
-                    centroid: LabD50::from_array(c),
-                    vertices,
+                    centroid: c,
+                    radius: radius(c, &vertices),
+                    subs: cubes(vertices.into_iter(), all, SUB_BUCKET)
+                        .into_iter()
+                        .map(|v| {
+                            let sc = centroid(&v, all);
+                            Sub {
+                                centroid: sc,
+                                radius: radius(sc, &v),
+                                vertices: v,
+                            }
+                        })
+                        .collect(),
                 }
             })
-            .collect();
+            .collect::<Vec<Bucket>>();
         let mut around = vec![Vec::new(); mesh.vertices.len()];
         for (t, tri) in mesh.triangles.iter().enumerate() {
             for &v in tri {
@@ -315,6 +365,56 @@ impl Locator {
     /// The boundary point nearest to `lab` in CIEDE2000 and its distance;
     /// `None` for an empty mesh.
     pub fn nearest(&self, lab: LabD50) -> Option<(LabD50, f64)> {
+        let mut best = self.nearest_vertex_bounded(lab)?;
+        if best.0 > TIGHT_SEARCH_UP_TO {
+            best = self.nearest_vertex_wide(lab)?;
+        }
+        self.refine(lab, best)
+    }
+
+    /// The nearest vertex by branch and bound: cells in the order of a lower
+    /// bound on their vertices' distance, until the bound passes the nearest
+    /// vertex found.
+    fn nearest_vertex_bounded(&self, lab: LabD50) -> Option<(f64, u32)> {
+        // A vertex of a cell with centroid c and radius r lies at least
+        // d(c) − f·r from `lab`.
+        let f = F_DE00_PER_DE_AB;
+        let mut ranked: Vec<(f64, usize)> = self
+            .buckets
+            .iter()
+            .enumerate()
+            .map(|(i, b)| (delta_e00(lab, b.centroid) - f * b.radius, i))
+            .collect();
+        ranked.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        let mut best: Option<(f64, u32)> = None;
+        let mut subs: Vec<(f64, &Sub)> = Vec::new();
+        for (k, &(low, bi)) in ranked.iter().enumerate() {
+            if k >= BUCKETS_SEARCHED && best.is_some_and(|(bd, _)| low > bd) {
+                break;
+            }
+            subs.clear();
+            subs.extend(
+                self.buckets[bi]
+                    .subs
+                    .iter()
+                    .map(|s| (delta_e00(lab, s.centroid) - f * s.radius, s)),
+            );
+            subs.sort_by(|a, b| a.0.total_cmp(&b.0));
+            for &(low_sub, sub) in &subs {
+                if best.is_some_and(|(bd, _)| low_sub > bd) {
+                    break;
+                }
+                self.search_vertices(lab, &sub.vertices, &mut best);
+            }
+        }
+        best
+    }
+
+    /// The nearest vertex with wide margins: every bucket whose centroid is
+    /// within 2·f·r of the nearest bucket centroid, and in them every
+    /// sub-bucket within 2·f·r of the nearest sub-bucket centroid.
+    fn nearest_vertex_wide(&self, lab: LabD50) -> Option<(f64, u32)> {
+        let f = F_DE00_PER_DE_AB;
         let mut ranked: Vec<(f64, usize)> = self
             .buckets
             .iter()
@@ -322,22 +422,35 @@ impl Locator {
             .map(|(i, b)| (delta_e00(lab, b.centroid), i))
             .collect();
         ranked.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
-        let mut best: Option<(f64, u32)> = None;
-        let cut = ranked.first().map_or(0.0, |r| r.0) + BUCKET_MARGIN;
-        let searched = ranked
+        let bucket_radius = self.buckets.iter().map(|b| b.radius).fold(0.0, f64::max);
+        let cut = ranked.first().map_or(0.0, |r| r.0) + 2.0 * f * bucket_radius;
+        let subs: Vec<(f64, &Sub)> = ranked
             .iter()
             .enumerate()
             .take_while(|(k, r)| *k < BUCKETS_SEARCHED || r.0 <= cut)
-            .map(|(_, r)| r.1);
-        for bi in searched {
-            for &v in &self.buckets[bi].vertices {
-                let d = delta_e00(lab, LabD50::from_array(self.mesh.vertices[v as usize]));
-                if best.is_none_or(|(bd, bv)| d < bd || (d == bd && v < bv)) {
-                    best = Some((d, v));
-                }
+            .flat_map(|(_, r)| self.buckets[r.1].subs.iter().map(|s| (delta_e00(lab, s.centroid), s)))
+            .collect();
+        let sub_radius = subs.iter().map(|s| s.1.radius).fold(0.0, f64::max);
+        let sub_cut = subs.iter().map(|s| s.0).fold(f64::INFINITY, f64::min) + 2.0 * f * sub_radius;
+        let mut best = None;
+        for (_, sub) in subs.iter().filter(|s| s.0 <= sub_cut) {
+            self.search_vertices(lab, &sub.vertices, &mut best);
+        }
+        best
+    }
+
+    fn search_vertices(&self, lab: LabD50, vertices: &[u32], best: &mut Option<(f64, u32)>) {
+        for &v in vertices {
+            let d = delta_e00(lab, LabD50::from_array(self.mesh.vertices[v as usize]));
+            if best.is_none_or(|(bd, bv)| d < bd || (d == bd && v < bv)) {
+                *best = Some((d, v));
             }
         }
-        let (mut best_d, v) = best?;
+    }
+
+    /// Samples the triangles around the best vertex on a fine barycentric grid.
+    fn refine(&self, lab: LabD50, best: (f64, u32)) -> Option<(LabD50, f64)> {
+        let (mut best_d, v) = best;
         let mut best_p = LabD50::from_array(self.mesh.vertices[v as usize]);
         for &t in &self.around[v as usize] {
             let [p, q, r] = self.mesh.triangles[t as usize].map(|i| self.mesh.vertices[i as usize]);

@@ -145,13 +145,21 @@ pub fn render_check(w: &mut dyn Write, r: &CheckReport, color: bool) -> io::Resu
         fixed(s.mean_delta_e00, 2)
     )?;
     if let Some(u) = r.unclassified_share {
-        writeln!(
-            w,
-            "map      {} class colours hold {} % of the map; the other {} % is no class (text, lines, gradients, stray colours)",
-            s.count,
-            fixed(100.0 * (1.0 - u), 1),
-            fixed(100.0 * u, 1)
-        )?;
+        if u < 0.0005 {
+            writeln!(
+                w,
+                "map      {} class colours; every pixel of the map belongs to one",
+                s.count
+            )?;
+        } else {
+            writeln!(
+                w,
+                "map      {} class colours hold {} % of the map; the other {} % is no class (text, lines, gradients, stray colours)",
+                s.count,
+                fixed(100.0 * (1.0 - u), 1),
+                fixed(100.0 * u, 1)
+            )?;
+        }
     }
     render_usage(w, r)
 }

@@ -61,6 +61,31 @@ fn pair_table(w: &mut dyn Write, pairs: &[FlaggedPair], sep: &Separation, color:
     t.write(w, color)
 }
 
+/// Most rows of one pair table in the text report; the JSON lists more.
+const TEXT_PAIR_ROWS: usize = 25;
+
+/// The first [`TEXT_PAIR_ROWS`] of `pairs` (smallest printed ΔE00 first) of
+/// `count` in all, and a line for the rest.
+fn shown_pairs(
+    w: &mut dyn Write,
+    pairs: &[FlaggedPair],
+    count: usize,
+    sep: &Separation,
+    color: bool,
+) -> io::Result<()> {
+    pair_table(w, &pairs[..pairs.len().min(TEXT_PAIR_ROWS)], sep, color)?;
+    let shown = pairs.len().min(TEXT_PAIR_ROWS);
+    if count > shown {
+        writeln!(
+            w,
+            "  … and {} more, the closest shown first (--json lists up to {})",
+            count - shown,
+            crate::swatch::separation::MAX_PAIRS_LISTED
+        )?;
+    }
+    Ok(())
+}
+
 /// The section after the per-colour table.
 pub fn render_survival(w: &mut dyn Write, s: &Survival, names: &[String], color: bool) -> io::Result<()> {
     render_separation(w, s, names, color)?;
@@ -100,24 +125,25 @@ fn render_separation(w: &mut dyn Write, s: &Survival, names: &[String], color: b
         )?,
     }
     let collapsed: Vec<FlaggedPair> = sep.flagged.iter().filter(|p| p.below_floor).cloned().collect();
-    if collapsed.is_empty() {
+    if sep.below_floor_count == 0 {
         writeln!(w, "  no pair collapses in print")?;
     } else {
         writeln!(
             w,
             "  {} COLLAPSE in print:",
-            if collapsed.len() == 1 {
+            if sep.below_floor_count == 1 {
                 "1 pair".to_string()
             } else {
-                format!("{} pairs", collapsed.len())
+                format!("{} pairs", sep.below_floor_count)
             }
         )?;
-        pair_table(w, &collapsed, sep, color)?;
+        shown_pairs(w, &collapsed, sep.below_floor_count, sep, color)?;
     }
     let halved: Vec<FlaggedPair> = sep.flagged.iter().filter(|p| !p.below_floor).cloned().collect();
-    if !halved.is_empty() {
+    let halved_count = sep.flagged_count - sep.below_floor_count;
+    if halved_count > 0 {
         writeln!(w, "  still above the floor but lost over half their screen difference:")?;
-        pair_table(w, &halved, sep, color)?;
+        shown_pairs(w, &halved, halved_count, sep, color)?;
     }
     writeln!(
         w,
@@ -219,11 +245,11 @@ fn render_cvd(w: &mut dyn Write, c: &CvdReport, sep: &Separation, color: bool) -
             f(r.severity, 2),
             f(r.min_screen, 2),
             f(r.min_print, 2),
-            r.flagged.len(),
-            if r.flagged.len() == 1 { "" } else { "s" }
+            r.flagged_count,
+            if r.flagged_count == 1 { "" } else { "s" }
         )?;
-        if !r.flagged.is_empty() {
-            pair_table(w, &r.flagged, sep, color)?;
+        if r.flagged_count > 0 {
+            shown_pairs(w, &r.flagged, r.flagged_count, sep, color)?;
         }
     }
     Ok(())

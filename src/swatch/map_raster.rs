@@ -467,6 +467,25 @@ pub fn palette_of(file: &str, m: &MapClasses) -> Result<Palette, PaletteError> {
     })
 }
 
+/// Names a map's classes from a legend palette: a class whose colour is,
+/// to the 8-bit code, the colour of a legend entry takes that entry's name
+/// (the first such entry). Returns how many classes were named.
+pub fn name_classes(map: &mut Palette, legend: &Palette) -> usize {
+    let code = |c: &crate::color::css::ColorInput| match c {
+        crate::color::css::ColorInput::ScreenRgb(v) => Some(v.map(|x| (x * 255.0).round() as i64)),
+        _ => None,
+    };
+    let mut named = 0;
+    for e in &mut map.entries {
+        let Some(k) = code(&e.color) else { continue };
+        if let Some(l) = legend.entries.iter().find(|l| code(&l.color) == Some(k)) {
+            e.name = l.name.clone();
+            named += 1;
+        }
+    }
+    named
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -167,7 +167,7 @@ pub const MAX_PALETTE_BYTES: u64 = 16 << 20;
 /// press gamut costs a nearest-point search: 4,096 random screen colours
 /// take about 8 s on 2 cores (measured, release build); 10,000 would take
 /// half a minute.
-pub const MAX_ENTRIES: usize = 4_096;
+pub const MAX_ENTRIES: usize = 10_000;
 
 /// The palette file formats inkfit reads.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]

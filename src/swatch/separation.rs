@@ -123,7 +123,7 @@ pub struct FlaggedPair {
 pub enum PairsListed {
     /// Every pair.
     All,
-    /// Only the flagged pairs (palettes of more than 64 entries).
+    /// Only the flagged pairs listed under `flagged` (palettes of more than 64 entries).
     Flagged,
 }
 
@@ -152,9 +152,17 @@ pub struct Separation {
     pub min_print_pair: Option<[usize; 2]>,
     /// Which pairs `pairs` lists.
     pub pairs_listed: PairsListed,
-    /// The pairs listed: every pair, or only the flagged ones (see `pairs_listed`).
+    /// The pairs listed: every pair, or the flagged ones listed under
+    /// `flagged` (see `pairs_listed`), in entry order.
     pub pairs: Vec<Pair>,
-    /// Flagged pairs, smallest printed ΔE00 first.
+    /// How many pairs are flagged, all of them.
+    pub flagged_count: usize,
+    /// How many of them are below their floor.
+    pub below_floor_count: usize,
+    /// How many of them lost more than half their screen difference.
+    pub lost_half_count: usize,
+    /// Flagged pairs, smallest printed ΔE00 first; at most
+    /// [`MAX_PAIRS_LISTED`] (`flagged_count` says how many there are).
     pub flagged: Vec<FlaggedPair>,
 }
 
@@ -163,75 +171,186 @@ pub fn pair_flags(screen: f64, print: f64, floor: f64) -> (bool, bool) {
     (print < floor, print < 0.5 * screen)
 }
 
+/// A flagged pair as found, before it is named: ordered by printed ΔE00
+/// (rounded, as listed), then by entry numbers.
+#[derive(Clone, Copy, Debug)]
+struct Found {
+    print: f64,
+    screen: f64,
+    i: usize,
+    j: usize,
+    below_floor: bool,
+    lost_half: bool,
+}
+
+impl Found {
+    fn key(&self) -> (f64, usize, usize) {
+        (self.print, self.i, self.j)
+    }
+}
+
+impl PartialEq for Found {
+    fn eq(&self, o: &Self) -> bool {
+        self.cmp(o) == std::cmp::Ordering::Equal
+    }
+}
+impl Eq for Found {}
+impl PartialOrd for Found {
+    fn partial_cmp(&self, o: &Self) -> Option<std::cmp::Ordering> {
+        Some(self.cmp(o))
+    }
+}
+impl Ord for Found {
+    fn cmp(&self, o: &Self) -> std::cmp::Ordering {
+        let (a, b) = (self.key(), o.key());
+        a.0.total_cmp(&b.0).then((a.1, a.2).cmp(&(b.1, b.2)))
+    }
+}
+
+/// What one stretch of rows of the pair triangle found.
+#[derive(Default)]
+struct Tally {
+    min_s: Option<(f64, [usize; 2])>,
+    min_p: Option<(f64, [usize; 2])>,
+    /// The smallest flagged pairs, at most [`MAX_PAIRS_LISTED`] (a max-heap).
+    smallest: std::collections::BinaryHeap<Found>,
+    flagged: usize,
+    below_floor: usize,
+    lost_half: usize,
+    /// Every pair in order, when every pair is listed.
+    all: Vec<(usize, usize, f64, f64)>,
+}
+
+fn lesser(a: Option<(f64, [usize; 2])>, b: Option<(f64, [usize; 2])>) -> Option<(f64, [usize; 2])> {
+    match (a, b) {
+        (Some(x), Some(y)) => Some(if y.0 < x.0 || (y.0 == x.0 && y.1 < x.1) { y } else { x }),
+        (x, None) => x,
+        (None, y) => y,
+    }
+}
+
+impl Tally {
+    fn keep(&mut self, f: Found) {
+        if self.smallest.len() < MAX_PAIRS_LISTED {
+            self.smallest.push(f);
+        } else if self.smallest.peek().is_some_and(|top| f < *top) {
+            self.smallest.pop();
+            self.smallest.push(f);
+        }
+    }
+
+    fn merge(mut self, o: Tally) -> Tally {
+        self.min_s = lesser(self.min_s, o.min_s);
+        self.min_p = lesser(self.min_p, o.min_p);
+        self.flagged += o.flagged;
+        self.below_floor += o.below_floor;
+        self.lost_half += o.lost_half;
+        for f in o.smallest {
+            self.keep(f);
+        }
+        self.all.extend(o.all);
+        self
+    }
+}
+
+/// Most pairs listed under `flagged` (and under `pairs` above
+/// [`MAX_ENTRIES_LISTING_ALL_PAIRS`] entries): the smallest printed ΔE00
+/// first, as many as a 64-entry palette has pairs, so a small palette's
+/// lists are whole; the counts cover every pair. Bounds the result's memory
+/// whatever the palette: 1,500 random colours flag some 450,000 pairs.
+pub const MAX_PAIRS_LISTED: usize = 2_016;
+
 /// The separation analysis of `screen` and `print` (same length, file order;
-/// `names` for the flagged list) against the floors of `rule`.
+/// `names` for the flagged list) against the floors of `rule`. Rows of the
+/// pair triangle are shared among threads; the result does not depend on
+/// how.
 pub fn separation(names: &[String], screen: &[LabD50], print: &[LabD50], rule: &SeparationRule<'_>) -> Separation {
+    use rayon::prelude::*;
     let n = screen.len().min(print.len());
     let list_all = n <= MAX_ENTRIES_LISTING_ALL_PAIRS;
-    let mut pairs = Vec::new();
-    let mut flagged = Vec::new();
-    let mut min_s: Option<(f64, [usize; 2])> = None;
-    let mut min_p: Option<(f64, [usize; 2])> = None;
-    for i in 0..n {
+    let row = |i: usize| {
+        let mut t = Tally::default();
         for j in i + 1..n {
             let s = delta_e00(screen[i], screen[j]);
             let p = delta_e00(print[i], print[j]);
-            let ids = [i + 1, j + 1];
-            if min_s.is_none_or(|(v, _)| s < v) {
-                min_s = Some((s, ids));
-            }
-            if min_p.is_none_or(|(v, _)| p < v) {
-                min_p = Some((p, ids));
-            }
-            let (touching, floor) = rule.of_pair(i, j);
+            t.min_s = lesser(t.min_s, Some((s, [i + 1, j + 1])));
+            t.min_p = lesser(t.min_p, Some((p, [i + 1, j + 1])));
+            let (_, floor) = rule.of_pair(i, j);
             let (below_floor, lost_half) = pair_flags(s, p, floor);
-            let pair = Pair {
-                a: i + 1,
-                b: j + 1,
-                screen: round(s, 2),
-                print: round(p, 2),
-                touching,
-                border_px: rule.adjacency.and_then(|a| a.border_px(i, j)),
-            };
+            let (s2, p2) = (round(s, 2), round(p, 2));
+            if list_all {
+                t.all.push((i, j, s2, p2));
+            }
             if below_floor || lost_half {
-                flagged.push(FlaggedPair {
-                    a: i + 1,
-                    b: j + 1,
-                    a_name: names.get(i).cloned().unwrap_or_default(),
-                    b_name: names.get(j).cloned().unwrap_or_default(),
-                    screen: pair.screen,
-                    print: pair.print,
-                    floor,
-                    touching,
-                    border_px: pair.border_px,
+                t.flagged += 1;
+                t.below_floor += usize::from(below_floor);
+                t.lost_half += usize::from(lost_half);
+                t.keep(Found {
+                    print: p2,
+                    screen: s2,
+                    i,
+                    j,
                     below_floor,
                     lost_half,
                 });
-                if !list_all {
-                    pairs.push(pair.clone());
-                }
-            }
-            if list_all {
-                pairs.push(pair);
             }
         }
-    }
-    flagged.sort_by(|x, y| x.print.total_cmp(&y.print).then((x.a, x.b).cmp(&(y.a, y.b))));
+        t
+    };
+    let t = (0..n).into_par_iter().map(row).reduce(Tally::default, Tally::merge);
+    let pair_of = |i: usize, j: usize, screen: f64, print: f64| Pair {
+        a: i + 1,
+        b: j + 1,
+        screen,
+        print,
+        touching: rule.of_pair(i, j).0,
+        border_px: rule.adjacency.and_then(|a| a.border_px(i, j)),
+    };
+    let smallest = t.smallest.into_sorted_vec();
+    let flagged: Vec<FlaggedPair> = smallest
+        .iter()
+        .map(|f| {
+            let (touching, floor) = rule.of_pair(f.i, f.j);
+            FlaggedPair {
+                a: f.i + 1,
+                b: f.j + 1,
+                a_name: names.get(f.i).cloned().unwrap_or_default(),
+                b_name: names.get(f.j).cloned().unwrap_or_default(),
+                screen: f.screen,
+                print: f.print,
+                floor,
+                touching,
+                border_px: rule.adjacency.and_then(|a| a.border_px(f.i, f.j)),
+                below_floor: f.below_floor,
+                lost_half: f.lost_half,
+            }
+        })
+        .collect();
+    let pairs = if list_all {
+        t.all.into_iter().map(|(i, j, s, p)| pair_of(i, j, s, p)).collect()
+    } else {
+        let mut v: Vec<Pair> = smallest.iter().map(|f| pair_of(f.i, f.j, f.screen, f.print)).collect();
+        v.sort_by_key(|p| (p.a, p.b));
+        v
+    };
     Separation {
         min_separation: rule.floor,
         min_legend_separation: rule.adjacency.map(|_| rule.legend_floor),
         adjacency: rule.adjacency.map(|a| a.source),
         touching_pairs: rule.adjacency.map(Adjacency::len),
-        min_screen: min_s.map_or(0.0, |(v, _)| round(v, 2)),
-        min_print: min_p.map_or(0.0, |(v, _)| round(v, 2)),
-        min_screen_pair: min_s.map(|(_, p)| p),
-        min_print_pair: min_p.map(|(_, p)| p),
+        min_screen: t.min_s.map_or(0.0, |(v, _)| round(v, 2)),
+        min_print: t.min_p.map_or(0.0, |(v, _)| round(v, 2)),
+        min_screen_pair: t.min_s.map(|(_, p)| p),
+        min_print_pair: t.min_p.map(|(_, p)| p),
         pairs_listed: if list_all {
             PairsListed::All
         } else {
             PairsListed::Flagged
         },
         pairs,
+        flagged_count: t.flagged,
+        below_floor_count: t.below_floor,
+        lost_half_count: t.lost_half,
         flagged,
     }
 }

@@ -120,6 +120,9 @@ pub struct CvdResult {
     /// Pairs whose simulated printed ΔE00 is below the floor or lost more
     /// than half of the simulated screen ΔE00; smallest first.
     pub flagged: Vec<FlaggedPair>,
+    /// How many pairs are flagged, all of them (`flagged` lists at most
+    /// [`super::separation::MAX_PAIRS_LISTED`]).
+    pub flagged_count: usize,
 }
 
 /// One object per deficiency asked for.
@@ -222,6 +225,7 @@ pub fn cvd_separation(
         min_screen: sep.min_screen,
         min_print: sep.min_print,
         flagged: sep.flagged,
+        flagged_count: sep.flagged_count,
     }
 }
 
@@ -244,8 +248,8 @@ pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &Sur
         r
     });
     let mut problems = Vec::new();
-    if !sep.flagged.is_empty() {
-        let collapsed = sep.flagged.iter().filter(|f| f.below_floor).count();
+    if sep.flagged_count > 0 {
+        let collapsed = sep.below_floor_count;
         problems.push(Finding::new(
             CheckKind::Separation,
             format!(
@@ -253,7 +257,7 @@ pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &Sur
                 collapsed,
                 if collapsed == 1 { "" } else { "s" },
                 opts.min_separation,
-                sep.flagged.iter().filter(|f| f.lost_half).count()
+                sep.lost_half_count
             ),
         ));
     }
@@ -288,13 +292,13 @@ pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &Sur
     }
     if let Some(c) = &cvd {
         for (d, r) in c.iter() {
-            if !r.flagged.is_empty() {
+            if r.flagged_count > 0 {
                 problems.push(Finding::new(
                     CheckKind::Cvd,
                     format!(
                         "{} {} under {d} simulation",
-                        r.flagged.len(),
-                        if r.flagged.len() == 1 {
+                        r.flagged_count,
+                        if r.flagged_count == 1 {
                             "pair collapses"
                         } else {
                             "pairs collapse"
