@@ -47,22 +47,32 @@ pub fn delta_e00_residuals(reference: LabD50, sample: LabD50) -> [f64; 3] {
     [tl, u + 0.5 * rt * v, (1.0 - 0.25 * rt * rt).max(0.0).sqrt() * v]
 }
 
+/// cos and sin of the phases 30°, 6° and 63° in T (Sharma et al., eq. 15),
+/// to double precision (a unit test compares them with `f64::cos`/`sin`).
+const T_PHASES: [(f64, f64); 3] = [
+    (0.8660254037844387, 0.5),
+    (0.9945218953682733, 0.10452846326765347),
+    (0.4539904997395468, 0.8910065241883678),
+];
+
 /// The CIEDE2000 terms ΔL'/S_L, ΔC'/S_C, ΔH'/S_H and R_T (Sharma et al.,
 /// eqs. 1–22), differences taken as `lab2` − `lab1`.
 fn de00_terms(lab1: LabD50, lab2: LabD50) -> [f64; 4] {
     let (l1, a1, b1) = (lab1.l, lab1.a, lab1.b);
     let (l2, a2, b2) = (lab2.l, lab2.a, lab2.b);
 
-    let c1 = a1.hypot(b1);
-    let c2 = a2.hypot(b2);
+    // Plain square roots rather than hypot: CIELAB values are far from
+    // overflow, and hypot's scaling costs several times as much.
+    let c1 = (a1 * a1 + b1 * b1).sqrt();
+    let c2 = (a2 * a2 + b2 * b2).sqrt();
     let c_bar = 0.5 * (c1 + c2);
     let c_bar7 = c_bar.powi(7);
     let g = 0.5 * (1.0 - (c_bar7 / (c_bar7 + 25f64.powi(7))).sqrt());
 
     let a1p = (1.0 + g) * a1;
     let a2p = (1.0 + g) * a2;
-    let c1p = a1p.hypot(b1);
-    let c2p = a2p.hypot(b2);
+    let c1p = (a1p * a1p + b1 * b1).sqrt();
+    let c2p = (a2p * a2p + b2 * b2).sqrt();
 
     let hue = |b: f64, ap: f64| {
         if b == 0.0 && ap == 0.0 {
@@ -107,10 +117,16 @@ fn de00_terms(lab1: LabD50, lab2: LabD50) -> [f64; 4] {
         0.5 * (h1p + h2p - 360.0)
     };
 
-    let t = 1.0 - 0.17 * (h_bar_p - 30.0).to_radians().cos()
-        + 0.24 * (2.0 * h_bar_p).to_radians().cos()
-        + 0.32 * (3.0 * h_bar_p + 6.0).to_radians().cos()
-        - 0.20 * (4.0 * h_bar_p - 63.0).to_radians().cos();
+    // T (eq. 15) from one sine and cosine of h̄′: the multiple angles by
+    // cos nh = 2 cos h · cos (n−1)h − cos (n−2)h and the same for sines, the
+    // phase shifts by the angle-sum identities.
+    let (s1, c1h) = h_bar_p.to_radians().sin_cos();
+    let (c2h, s2h) = (2.0 * c1h * c1h - 1.0, 2.0 * s1 * c1h);
+    let (c3h, s3h) = (2.0 * c1h * c2h - c1h, 2.0 * c1h * s2h - s1);
+    let (c4h, s4h) = (2.0 * c1h * c3h - c2h, 2.0 * c1h * s3h - s2h);
+    let [(c30, s30), (c6, s6), (c63, s63)] = T_PHASES;
+    let t = 1.0 - 0.17 * (c1h * c30 + s1 * s30) + 0.24 * c2h + 0.32 * (c3h * c6 - s3h * s6)
+        - 0.20 * (c4h * c63 + s4h * s63);
     let d_theta = 30.0 * (-((h_bar_p - 275.0) / 25.0).powi(2)).exp();
     let c_bar_p7 = c_bar_p.powi(7);
     let rc = 2.0 * (c_bar_p7 / (c_bar_p7 + 25f64.powi(7))).sqrt();
@@ -197,4 +213,58 @@ pub fn delta_e_cmc(reference: LabD50, sample: LabD50, l: f64, c: f64) -> f64 {
     let tl = dl / (l * sl);
     let tc = dc / (c * sc);
     (tl * tl + tc * tc + dh2 / (sh * sh)).sqrt()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn t_phases_are_the_cosines_and_sines_of_their_angles() {
+        for ((c, s), deg) in T_PHASES.into_iter().zip([30.0f64, 6.0, 63.0]) {
+            assert!((c - deg.to_radians().cos()).abs() < 1e-15 && (s - deg.to_radians().sin()).abs() < 1e-15);
+        }
+    }
+
+    #[test]
+    fn t_from_multiple_angles_is_eq_15_as_written() {
+        // Property: through ΔE00 of pure hue differences (ΔH′/S_H with
+        // S_H = 1 + 0.015·C̄′·T), T equals Sharma et al.'s eq. 15 evaluated
+        // with four cosines, to rounding, at mean hues around the circle.
+        let textbook = |h: f64| {
+            1.0 - 0.17 * (h - 30.0).to_radians().cos() + 0.24 * (2.0 * h).to_radians().cos()
+                + 0.32 * (3.0 * h + 6.0).to_radians().cos()
+                - 0.20 * (4.0 * h - 63.0).to_radians().cos()
+        };
+        for k in 0..720 {
+            let h = f64::from(k) * 0.5;
+            // Two colours of chroma 30, 4° apart in hue; their primed
+            // chromas and hues are computed below as eqs. 2–7 define them.
+            let at = |deg: f64| {
+                let (s, c) = deg.to_radians().sin_cos();
+                LabD50::new(50.0, 30.0 * c, 30.0 * s)
+            };
+            let (p, q) = (at(h - 2.0), at(h + 2.0));
+            let [_, _, th, _] = de00_terms(p, q);
+            let g = 0.5 * (1.0 - (30f64.powi(7) / (30f64.powi(7) + 25f64.powi(7))).sqrt());
+            let prime = |l: LabD50| {
+                let ap = (1.0 + g) * l.a;
+                ((ap * ap + l.b * l.b).sqrt(), l.b.atan2(ap).to_degrees().rem_euclid(360.0))
+            };
+            let ((cp, hp), (cq, hq)) = (prime(p), prime(q));
+            let mut dh = hq - hp;
+            if dh > 180.0 {
+                dh -= 360.0;
+            } else if dh < -180.0 {
+                dh += 360.0;
+            }
+            let mut hbar = 0.5 * (hp + hq);
+            if (hp - hq).abs() > 180.0 {
+                hbar += if hp + hq < 360.0 { 180.0 } else { -180.0 };
+            }
+            let dhp_big = 2.0 * (cp * cq).sqrt() * (dh.to_radians() / 2.0).sin();
+            let sh = 1.0 + 0.015 * 0.5 * (cp + cq) * textbook(hbar);
+            assert!((th - dhp_big / sh).abs() < 1e-12, "h̄ {h}: {th} vs {}", dhp_big / sh);
+        }
+    }
 }
