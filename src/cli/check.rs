@@ -150,8 +150,15 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
         ink_limit,
     };
     let r = check_against(&palette, &screen, &press, opts, press_gamut.as_ref())?;
-    let s = crate::swatch::survival::analyse_check(&r, &survival);
     spinner.finish_and_clear();
+    // Comparing every pair grows with the square of the count: a bar.
+    let bar = super::progress_bar(
+        palette.entries.len() >= BUSY_FROM && !a.json,
+        crate::swatch::survival::pairs_compared(r.entries.len(), &survival),
+        "comparing every pair".to_string(),
+    );
+    let s = crate::swatch::survival::analyse_check_with(&r, &survival, &|k| bar.inc(k));
+    bar.finish_and_clear();
     if let Some(p) = &a.svg {
         let collapsed: Vec<[usize; 2]> = s
             .separation

@@ -283,6 +283,21 @@ pub(super) fn busy(wanted: bool, message: String) -> indicatif::ProgressBar {
     bar
 }
 
+/// A progress bar of `len` steps with `message` on stderr when `wanted` and
+/// stderr is a terminal; hidden otherwise.
+pub(super) fn progress_bar(wanted: bool, len: u64, message: String) -> indicatif::ProgressBar {
+    if !wanted || !std::io::stderr().is_terminal() {
+        return indicatif::ProgressBar::hidden();
+    }
+    let style = indicatif::ProgressStyle::with_template("{msg} [{bar:30}] {percent:>3} % (about {eta} left)")
+        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar())
+        .progress_chars("=> ");
+    indicatif::ProgressBar::new(len)
+        .with_style(style)
+        .with_message(message)
+        .with_finish(indicatif::ProgressFinish::AndClear)
+}
+
 /// The error and its causes on one line; causes whose text the message
 /// already includes are not repeated.
 pub fn error_chain(e: &(dyn std::error::Error + 'static)) -> String {

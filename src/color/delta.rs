@@ -232,7 +232,8 @@ mod tests {
         // S_H = 1 + 0.015·C̄′·T), T equals Sharma et al.'s eq. 15 evaluated
         // with four cosines, to rounding, at mean hues around the circle.
         let textbook = |h: f64| {
-            1.0 - 0.17 * (h - 30.0).to_radians().cos() + 0.24 * (2.0 * h).to_radians().cos()
+            1.0 - 0.17 * (h - 30.0).to_radians().cos()
+                + 0.24 * (2.0 * h).to_radians().cos()
                 + 0.32 * (3.0 * h + 6.0).to_radians().cos()
                 - 0.20 * (4.0 * h - 63.0).to_radians().cos()
         };
@@ -249,7 +250,10 @@ mod tests {
             let g = 0.5 * (1.0 - (30f64.powi(7) / (30f64.powi(7) + 25f64.powi(7))).sqrt());
             let prime = |l: LabD50| {
                 let ap = (1.0 + g) * l.a;
-                ((ap * ap + l.b * l.b).sqrt(), l.b.atan2(ap).to_degrees().rem_euclid(360.0))
+                (
+                    (ap * ap + l.b * l.b).sqrt(),
+                    l.b.atan2(ap).to_degrees().rem_euclid(360.0),
+                )
             };
             let ((cp, hp), (cq, hq)) = (prime(p), prime(q));
             let mut dh = hq - hp;

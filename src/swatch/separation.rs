@@ -265,6 +265,18 @@ pub const MAX_PAIRS_LISTED: usize = 2_016;
 /// pair triangle are shared among threads; the result does not depend on
 /// how.
 pub fn separation(names: &[String], screen: &[LabD50], print: &[LabD50], rule: &SeparationRule<'_>) -> Separation {
+    separation_with(names, screen, print, rule, &|_| {})
+}
+
+/// [`separation`], telling `progress` how many pairs each finished row held
+/// (from worker threads; the counts add up to n·(n − 1)/2).
+pub fn separation_with(
+    names: &[String],
+    screen: &[LabD50],
+    print: &[LabD50],
+    rule: &SeparationRule<'_>,
+    progress: &(dyn Fn(u64) + Sync),
+) -> Separation {
     use rayon::prelude::*;
     let n = screen.len().min(print.len());
     let list_all = n <= MAX_ENTRIES_LISTING_ALL_PAIRS;
@@ -295,6 +307,7 @@ pub fn separation(names: &[String], screen: &[LabD50], print: &[LabD50], rule: &
                 });
             }
         }
+        progress((n - i - 1) as u64);
         t
     };
     let t = (0..n).into_par_iter().map(row).reduce(Tally::default, Tally::merge);

@@ -7,7 +7,7 @@ use serde::Serialize;
 use super::adjacency::Adjacency;
 use super::check::CheckReport;
 use super::order::{order, Order, Scheme};
-use super::separation::{separation, FlaggedPair, Separation, SeparationRule};
+use super::separation::{separation_with, FlaggedPair, Separation, SeparationRule};
 use crate::color::cvd::{Deficiency, Simulator};
 use crate::color::LabD50;
 use crate::precision::round;
@@ -215,10 +215,22 @@ pub fn cvd_separation(
     print: &[LabD50],
     rule: &SeparationRule<'_>,
 ) -> CvdResult {
+    cvd_separation_with(sim, names, screen, print, rule, &|_| {})
+}
+
+/// [`cvd_separation`], telling `progress` the pairs compared.
+pub fn cvd_separation_with(
+    sim: &Simulator,
+    names: &[String],
+    screen: &[LabD50],
+    print: &[LabD50],
+    rule: &SeparationRule<'_>,
+    progress: &(dyn Fn(u64) + Sync),
+) -> CvdResult {
     let s: Vec<LabD50> = screen.iter().map(|&l| sim.lab(l)).collect();
     let p: Vec<LabD50> = print.iter().map(|&l| sim.lab(l)).collect();
     // The same pair analysis as for normal vision, on the simulated colours.
-    let sep = separation(names, &s, &p, rule);
+    let sep = separation_with(names, &s, &p, rule, progress);
     CvdResult {
         severity: sim.severity,
         simulated_lab: p.iter().map(|l| l.to_array().map(|v| round(v, 2))).collect(),
@@ -231,14 +243,33 @@ pub fn cvd_separation(
 
 /// The whole analysis over screen and printed CIELAB in file order.
 pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &SurvivalOptions) -> Survival {
+    analyse_with(names, screen, print, opts, &|_| {})
+}
+
+/// How many pairs [`analyse_with`] compares in all: every pair once for
+/// normal vision and once per deficiency.
+pub fn pairs_compared(entries: usize, opts: &SurvivalOptions) -> u64 {
+    let pairs = (entries * entries.saturating_sub(1) / 2) as u64;
+    pairs * (1 + opts.simulators().len() as u64)
+}
+
+/// [`analyse`], telling `progress` the pairs compared as it goes (from
+/// worker threads; [`pairs_compared`] in all).
+pub fn analyse_with(
+    names: &[String],
+    screen: &[LabD50],
+    print: &[LabD50],
+    opts: &SurvivalOptions,
+    progress: &(dyn Fn(u64) + Sync),
+) -> Survival {
     let rule = opts.rule();
-    let sep = separation(names, screen, print, &rule);
+    let sep = separation_with(names, screen, print, &rule, progress);
     let ord = order(opts.scheme, screen, print, opts.min_step);
     let sims = opts.simulators();
     let cvd = (!sims.is_empty()).then(|| {
         let mut r = CvdReport::default();
         for s in &sims {
-            let res = Some(cvd_separation(s, names, screen, print, &rule));
+            let res = Some(cvd_separation_with(s, names, screen, print, &rule, progress));
             match s.deficiency {
                 Deficiency::Protan => r.protan = res,
                 Deficiency::Deutan => r.deutan = res,
@@ -320,10 +351,15 @@ pub fn analyse(names: &[String], screen: &[LabD50], print: &[LabD50], opts: &Sur
 
 /// The analysis over the result of a palette check.
 pub fn analyse_check(r: &CheckReport, opts: &SurvivalOptions) -> Survival {
+    analyse_check_with(r, opts, &|_| {})
+}
+
+/// [`analyse_check`], telling `progress` the pairs compared.
+pub fn analyse_check_with(r: &CheckReport, opts: &SurvivalOptions, progress: &(dyn Fn(u64) + Sync)) -> Survival {
     let names: Vec<String> = r.entries.iter().map(|e| e.name.clone()).collect();
     let screen: Vec<LabD50> = r.entries.iter().map(|e| LabD50::from_array(e.screen_lab)).collect();
     let print: Vec<LabD50> = r.entries.iter().map(|e| LabD50::from_array(e.printed_lab)).collect();
-    analyse(&names, &screen, &print, opts)
+    analyse_with(&names, &screen, &print, opts, progress)
 }
 
 /// The one verdict of a check: every colour within tolerance, inside the
@@ -405,4 +441,33 @@ pub struct CheckWithSurvival<'a> {
     pub survival: &'a Survival,
     /// The one verdict.
     pub verdict: &'a Verdict,
+}
+
+#[cfg(test)]
+mod progress_tests {
+    use super::*;
+    use std::sync::atomic::{AtomicU64, Ordering};
+
+    #[test]
+    fn progress_counts_every_pair_of_every_set() {
+        // Property: the counts reported add up to the pairs compared, once
+        // for normal vision and once per deficiency.
+        let n = 70;
+        let lab: Vec<LabD50> = (0..n)
+            .map(|i| LabD50::new(f64::from(i), f64::from(i % 7) * 9.0, -f64::from(i % 5) * 7.0))
+            .collect();
+        let names: Vec<String> = (0..n).map(|i| format!("c{i}")).collect();
+        let opts = SurvivalOptions {
+            cvd: vec![Deficiency::Deutan, Deficiency::Tritan],
+            ..SurvivalOptions::default()
+        };
+        let done = AtomicU64::new(0);
+        let s = analyse_with(&names, &lab, &lab, &opts, &|k| {
+            done.fetch_add(k, Ordering::Relaxed);
+        });
+        assert_eq!(done.load(Ordering::Relaxed), pairs_compared(n as usize, &opts));
+        assert_eq!(pairs_compared(n as usize, &opts), 3 * 70 * 69 / 2);
+        // And the result is the one without progress.
+        assert_eq!(s, analyse(&names, &lab, &lab, &opts));
+    }
 }
