@@ -296,3 +296,63 @@ fn check_reads_artwork_end_to_end() {
     assert!(text.contains("artwork  2 distinct colours from 3 paints"), "{text}");
     assert!(text.contains("marsh (opacity 0.60)"), "{text}");
 }
+
+#[test]
+fn rendered_artwork_gives_touching_colours_and_shares() {
+    // 200 × 100 user units rendered at 1,024 × 512 (scale 5.12): A covers
+    // x 0–50 and B x 50–100, meeting along x = 50, which falls on the pixel
+    // edge 256, so their border is the full 512 rows; C at x 150–200 touches
+    // neither (transparent between). A hairline of D (0.1 units, half a
+    // pixel) is seen only blended: no class, its neighbours unknown.
+    let dir = tempfile::tempdir().unwrap();
+    let f = dir.path().join("sheet.svg");
+    std::fs::write(
+        &f,
+        "<svg xmlns='http://www.w3.org/2000/svg' width='200' height='100'>\
+         <rect x='0' y='0' width='50' height='100' fill='#c83232'/>\
+         <rect x='50' y='0' width='50' height='100' fill='#28a03c'/>\
+         <rect x='150' y='0' width='50' height='100' fill='#283cc8'/>\
+         <line x1='0' y1='20' x2='200' y2='20' stroke='#e6d23c' stroke-width='0.1'/></svg>",
+    )
+    .unwrap();
+    let o = run(&["check", f.to_str().unwrap(), "--render", "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v = json(&o);
+    let idx = |hex: &str| {
+        1 + v["entries"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .position(|e| e["input"] == hex)
+            .unwrap() as u64
+    };
+    let (a, b, c, d) = (idx("#c83232"), idx("#28a03c"), idx("#283cc8"), idx("#e6d23c"));
+    let pair = |x: u64, y: u64| {
+        v["separation"]["pairs"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|p| (p["a"] == x.min(y)) && (p["b"] == x.max(y)))
+            .unwrap()
+            .clone()
+    };
+    assert_eq!(v["separation"]["adjacency"], "render");
+    assert_eq!(pair(a, b)["touching"], true);
+    assert_eq!(pair(a, b)["border_px"], 512);
+    assert_eq!(pair(a, c)["touching"], false);
+    assert_eq!(pair(b, c)["touching"], false);
+    assert!(pair(a, d).get("touching").is_none(), "{}", pair(a, d));
+    // Each rectangle paints a third of what is painted (the transparent
+    // gap is no map), less a share of the hairline's half-transparent
+    // pixels over the gap: at most 2 rows of 256 pixels.
+    for x in [a, b, c] {
+        let share = v["entries"][x as usize - 1]["share"].as_f64().unwrap();
+        assert!((share - 1.0 / 3.0).abs() < 0.002, "{share}");
+    }
+    assert!(v["entries"][d as usize - 1].get("share").is_none());
+    // --render is for SVG only.
+    assert_error(
+        &run(&["check", &demo("landuse.csv"), "--render"]),
+        &["--render renders SVG artwork"],
+    );
+}

@@ -18,7 +18,7 @@ use crate::report::{self, DeltaColor, DeltaReport};
 use crate::swatch::adjacency::read_adjacency;
 use crate::swatch::check::{check_against, CheckOptions};
 use crate::swatch::map_raster::MapOptions;
-use crate::swatch::Palette;
+use crate::swatch::{Format, Palette};
 
 /// The options of `check`.
 #[derive(Args, Debug)]
@@ -58,6 +58,9 @@ pub struct CheckArgs {
     /// Smallest printed ΔE00 between classes that never touch, when which classes touch is known (a map image or --touching). Default: half of --min-separation (our rule: they are told apart through the legend, not across a border).
     #[arg(long, allow_negative_numbers = true, value_name = "ΔE00")]
     pub min_legend_separation: Option<f64>,
+    /// For SVG artwork: render it and find which of its colours touch and the share of the drawing each paints, as for a map image (text is not drawn).
+    #[arg(long)]
+    pub render: bool,
     /// For a map image: name its classes from a palette file (the map's legend); a class whose colour is an entry's colour takes the entry's name.
     #[arg(long, value_name = "PALETTE")]
     pub class_names: Option<PathBuf>,
@@ -99,7 +102,20 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
         min_class_share: a.min_class_share / 100.0,
         ..MapOptions::default()
     };
-    let mut palette = Palette::read_with(&a.palette, &map)?;
+    let mut palette = if a.render {
+        if Format::of_path(&a.palette) != Format::Svg {
+            return Err(format!(
+                "--render renders SVG artwork; {} is not an .svg file",
+                a.palette.display()
+            )
+            .into());
+        }
+        let (mut p, text) = Palette::read_with_text(&a.palette)?;
+        crate::swatch::svg_render::find_touching(&p.source.clone(), &text, &mut p, map.min_class_share)?;
+        p
+    } else {
+        Palette::read_with(&a.palette, &map)?
+    };
     if let Some(f) = &a.class_names {
         if palette.unclassified_share.is_none() {
             return Err(format!(

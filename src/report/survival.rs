@@ -31,7 +31,7 @@ fn lies(p: &FlaggedPair) -> String {
             None => "touch".to_string(),
         },
         Some(false) => "apart".to_string(),
-        None => String::new(),
+        None => "unknown".to_string(),
     }
 }
 
@@ -114,6 +114,7 @@ fn render_separation(w: &mut dyn Write, s: &Survival, names: &[String], color: b
             match source {
                 AdjacencySource::Map => "found on the map",
                 AdjacencySource::File => "as the adjacency file gives them",
+                AdjacencySource::Render => "found by rendering the artwork; a colour that paints no areas there keeps the full floor",
             },
             f(legend, 1)
         )?,

@@ -38,6 +38,8 @@ pub enum AdjacencySource {
     Map,
     /// Given in an adjacency file.
     File,
+    /// Found by rendering SVG artwork.
+    Render,
 }
 
 /// The touching pairs of a palette's entries.
@@ -48,12 +50,31 @@ pub struct Adjacency {
     /// Touching pairs (0-based entry indices, lower first) with the border
     /// length in pixels where known.
     touching: HashMap<(usize, usize), Option<u64>>,
+    /// Per entry, whether its neighbours are known; `None`: every entry's.
+    known: Option<Vec<bool>>,
 }
 
 impl Adjacency {
     /// An adjacency over touching pairs keyed (lower, higher), 0-based.
     pub fn new(source: AdjacencySource, touching: HashMap<(usize, usize), Option<u64>>) -> Self {
-        Adjacency { source, touching }
+        Adjacency {
+            source,
+            touching,
+            known: None,
+        }
+    }
+
+    /// The same, knowing the neighbours only of the entries marked true
+    /// (artwork whose rendering shows some colours only blended or in lines
+    /// too thin to be classes).
+    pub fn with_known(mut self, known: Vec<bool>) -> Self {
+        self.known = Some(known);
+        self
+    }
+
+    /// Whether entry `i`'s neighbours are known.
+    pub fn knows(&self, i: usize) -> bool {
+        self.known.as_ref().is_none_or(|k| k.get(i).copied().unwrap_or(false))
     }
 
     fn key(a: usize, b: usize) -> (usize, usize) {

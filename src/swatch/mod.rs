@@ -11,6 +11,8 @@ pub mod separation;
 pub mod sld;
 pub mod survival;
 pub mod svg;
+#[cfg(feature = "render")]
+pub mod svg_render;
 pub mod xml;
 
 use std::path::Path;

@@ -59,6 +59,8 @@ impl SeparationRule<'_> {
     fn of_pair(&self, i: usize, j: usize) -> (Option<bool>, f64) {
         match self.adjacency {
             None => (None, self.floor),
+            // Where either entry's neighbours are unknown, the full floor.
+            Some(a) if !(a.knows(i) && a.knows(j)) => (None, self.floor),
             Some(a) if a.touches(i, j) => (Some(true), self.floor),
             Some(_) => (Some(false), self.legend_floor),
         }
