@@ -1,25 +1,17 @@
 //! End-to-end palette check of 1,000 colours: profile load, transform build,
 //! conversions and ΔE00, as `inkfit check` runs it.
 
+mod common;
+use common::palette_text;
+
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use inkfit::icc::transform::PressMapping;
 use inkfit::icc::{IccProfile, RenderingIntent};
 use inkfit::swatch::check::{check, CheckOptions};
 use inkfit::swatch::{Format, Palette};
 
-fn palette_text(n: usize) -> String {
-    // A deterministic spread over the RGB cube (a simple LCG).
-    let mut s = 0x2545_f491_u32;
-    let mut out = String::new();
-    for i in 0..n {
-        s = s.wrapping_mul(1_664_525).wrapping_add(1_013_904_223);
-        out.push_str(&format!("#{:06x} c{i}\n", s >> 8));
-    }
-    out
-}
-
 fn bench_check(c: &mut Criterion) {
-    let palette = Palette::parse("bench", &palette_text(1000), Format::Text).unwrap();
+    let palette = Palette::parse("bench", &palette_text(1000, 0x2545_f491), Format::Text).unwrap();
     let opts = CheckOptions {
         mapping: PressMapping {
             intent: RenderingIntent::Relative,

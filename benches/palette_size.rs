@@ -4,6 +4,9 @@
 //! 2,500 colours spread over the RGB cube; and the classes of a map image.
 //! The goals compare each size with the demo in the same run.
 
+mod common;
+use common::palette_text;
+
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use inkfit::color::cvd::Deficiency;
 use inkfit::gamut::Gamut;
@@ -13,17 +16,6 @@ use inkfit::swatch::check::{check_against, CheckOptions};
 use inkfit::swatch::map_raster::find_classes;
 use inkfit::swatch::survival::{analyse_check, SurvivalOptions};
 use inkfit::swatch::{Format, Palette};
-
-fn palette_text(n: usize) -> String {
-    // A deterministic spread over the RGB cube (a simple LCG).
-    let mut s = 0x2545_f491_u32;
-    let mut out = String::new();
-    for i in 0..n {
-        s = s.wrapping_mul(1_664_525).wrapping_add(1_013_904_223);
-        out.push_str(&format!("#{:06x} c{i}\n", s >> 8));
-    }
-    out
-}
 
 fn whole_check(p: &Palette) {
     let screen = IccProfile::load("srgb").unwrap().require_screen().unwrap();
@@ -52,7 +44,7 @@ fn bench_sizes(c: &mut Criterion) {
     let demo = Palette::read("fixtures/demo/landuse.csv".as_ref()).unwrap();
     g.bench_function("demo_9", |b| b.iter(|| whole_check(&demo)));
     for n in [256, 2_500] {
-        let p = Palette::parse("bench", &palette_text(n), Format::Text).unwrap();
+        let p = Palette::parse("bench", &palette_text(n, 0x2545_f491), Format::Text).unwrap();
         g.bench_function(format!("random_{n}"), |b| b.iter(|| whole_check(&p)));
     }
     g.finish();

@@ -1,6 +1,9 @@
 //! Palette survival speed: the whole check with separation and three
 //! deficiencies for 256 entries, and the repair of a 12-entry palette.
 
+mod common;
+use common::palette_text;
+
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use inkfit::color::cvd::Deficiency;
 use inkfit::gamut::Gamut;
@@ -11,17 +14,6 @@ use inkfit::swatch::order::Scheme;
 use inkfit::swatch::repair::{repair, RepairOptions};
 use inkfit::swatch::survival::{analyse_check, SurvivalOptions};
 use inkfit::swatch::{Format, Palette};
-
-fn palette_text(n: usize, seed: u32) -> String {
-    // A deterministic spread over the RGB cube (a simple LCG).
-    let mut s = seed;
-    let mut out = String::new();
-    for i in 0..n {
-        s = s.wrapping_mul(1_664_525).wrapping_add(1_013_904_223);
-        out.push_str(&format!("#{:06x} c{i}\n", s >> 8));
-    }
-    out
-}
 
 fn bench_survival(c: &mut Criterion) {
     let mapping = PressMapping {

@@ -295,3 +295,19 @@ fn a_file_beyond_the_size_cap_is_not_read() {
     drop(f);
     assert_refused(&p, &["larger than 64 MiB"]);
 }
+
+#[test]
+fn a_table_giving_no_finite_ink_measures_within_four_hundred_percent() {
+    // The fuzzer's find (fuzz/regressions/icc_profile/): a CMYK press whose
+    // Lab → CMYK table gives non-finite and far-above-100 % CMYK for some
+    // CIELAB. Property: a channel holds at most 100 % ink, so any measured
+    // total lies in 0–400 %.
+    let o = run(&[
+        "inspect",
+        "fuzz/regressions/icc_profile/nonfinite-ink-table.icc",
+        "--json",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let ink = json(&o)["max_ink"].as_f64().expect("a finite measurement");
+    assert!((0.0..=400.0).contains(&ink), "{ink}");
+}

@@ -464,18 +464,6 @@ fn bad_map_images_are_refused_in_one_line() {
     assert_error(&o, &["map images are not rewritten"]);
 }
 
-/// CRC-32 (ISO 3309, as PNG chunks use it), bit by bit.
-fn crc32(data: &[u8]) -> u32 {
-    let mut c = 0xffff_ffffu32;
-    for &b in data {
-        c ^= u32::from(b);
-        for _ in 0..8 {
-            c = if c & 1 != 0 { 0xedb8_8320 ^ (c >> 1) } else { c >> 1 };
-        }
-    }
-    !c
-}
-
 #[test]
 fn the_demo_map_finds_the_atlas_classes() {
     // The demo map is drawn with the nine land-use colours of

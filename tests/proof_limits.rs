@@ -40,19 +40,6 @@ fn assert_refused(img: &Path, extra: &[&str], needles: &[&str]) {
     assert!(stray.is_empty(), "temporary files left: {stray:?}");
 }
 
-/// CRC-32 as PNG uses it (ISO 3309 / ITU-T V.42 polynomial, reflected,
-/// PNG spec annex D), bit by bit.
-fn crc32(data: &[u8]) -> u32 {
-    let mut c = 0xffff_ffffu32;
-    for &b in data {
-        c ^= u32::from(b);
-        for _ in 0..8 {
-            c = if c & 1 != 0 { 0xedb8_8320 ^ (c >> 1) } else { c >> 1 };
-        }
-    }
-    !c
-}
-
 #[test]
 fn crc32_matches_its_check_value() {
     // The standard check value of CRC-32 over the ASCII digits "123456789".

@@ -379,13 +379,7 @@ impl Locator {
         // A vertex of a cell with centroid c and radius r lies at least
         // d(c) − f·r from `lab`.
         let f = F_DE00_PER_DE_AB;
-        let mut ranked: Vec<(f64, usize)> = self
-            .buckets
-            .iter()
-            .enumerate()
-            .map(|(i, b)| (delta_e00(lab, b.centroid) - f * b.radius, i))
-            .collect();
-        ranked.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        let ranked = self.ranked(|b| delta_e00(lab, b.centroid) - f * b.radius);
         let mut best: Option<(f64, u32)> = None;
         let mut subs: Vec<(f64, &Sub)> = Vec::new();
         for (k, &(low, bi)) in ranked.iter().enumerate() {
@@ -415,13 +409,7 @@ impl Locator {
     /// sub-bucket within 2·f·r of the nearest sub-bucket centroid.
     fn nearest_vertex_wide(&self, lab: LabD50) -> Option<(f64, u32)> {
         let f = F_DE00_PER_DE_AB;
-        let mut ranked: Vec<(f64, usize)> = self
-            .buckets
-            .iter()
-            .enumerate()
-            .map(|(i, b)| (delta_e00(lab, b.centroid), i))
-            .collect();
-        ranked.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        let ranked = self.ranked(|b| delta_e00(lab, b.centroid));
         let bucket_radius = self.buckets.iter().map(|b| b.radius).fold(0.0, f64::max);
         let cut = ranked.first().map_or(0.0, |r| r.0) + 2.0 * f * bucket_radius;
         let subs: Vec<(f64, &Sub)> = ranked
@@ -437,6 +425,13 @@ impl Locator {
             self.search_vertices(lab, &sub.vertices, &mut best);
         }
         best
+    }
+
+    /// The buckets by `key`, smallest first (ties by position), with it.
+    fn ranked(&self, key: impl Fn(&Bucket) -> f64) -> Vec<(f64, usize)> {
+        let mut r: Vec<(f64, usize)> = self.buckets.iter().enumerate().map(|(i, b)| (key(b), i)).collect();
+        r.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        r
     }
 
     fn search_vertices(&self, lab: LabD50, vertices: &[u32], best: &mut Option<(f64, u32)>) {

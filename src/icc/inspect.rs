@@ -300,10 +300,21 @@ pub fn measure_max_ink(p: &IccProfile) -> Option<MaxInk> {
         false,
     )
     .ok()?;
+    // A damaged table can give CMYK outside 0–100 % or no finite number at
+    // all: a channel holds at most 100 % ink, and a sample that is no
+    // finite number counts as no ink found, never as the heaviest.
     let ink = |lab: &[[f64; 3]]| -> Vec<f64> {
         let mut out = vec![[0.0; 4]; lab.len()];
         t.transform_pixels(lab, &mut out);
-        out.iter().map(|c| c.iter().sum::<f64>()).collect()
+        out.iter()
+            .map(|c| {
+                if c.iter().all(|v| v.is_finite()) {
+                    c.iter().map(|v| v.clamp(0.0, 100.0)).sum::<f64>()
+                } else {
+                    f64::NEG_INFINITY
+                }
+            })
+            .collect()
     };
     let samples = max_ink_samples();
     let totals = ink(&samples);
@@ -337,8 +348,9 @@ pub fn measure_max_ink(p: &IccProfile) -> Option<MaxInk> {
         }
         max = max.max(best);
     }
-    Some(MaxInk {
-        percent: (max * 10.0).round() / 10.0,
+    let percent = (max * 10.0).round() / 10.0;
+    percent.is_finite().then_some(MaxInk {
+        percent,
         samples: count,
     })
 }

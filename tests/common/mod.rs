@@ -98,3 +98,16 @@ impl Rng {
         (-2.0 * u.ln()).sqrt() * (std::f64::consts::TAU * v).cos()
     }
 }
+
+/// CRC-32 as PNG uses it (ISO 3309 / ITU-T V.42 polynomial, reflected,
+/// PNG spec annex D), bit by bit.
+pub fn crc32(data: &[u8]) -> u32 {
+    let mut c = 0xffff_ffffu32;
+    for &b in data {
+        c ^= u32::from(b);
+        for _ in 0..8 {
+            c = if c & 1 != 0 { 0xedb8_8320 ^ (c >> 1) } else { c >> 1 };
+        }
+    }
+    !c
+}
