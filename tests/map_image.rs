@@ -493,3 +493,34 @@ fn the_demo_map_finds_the_atlas_classes() {
         .sum();
     assert!((shares + v["unclassified_share"].as_f64().unwrap() - 1.0).abs() < 1e-3);
 }
+
+#[test]
+fn an_embedded_profile_is_named_in_the_notes() {
+    // The class colours are the screen profile's RGB; a map that embeds a
+    // profile of its own says so rather than pass silently.
+    let dir = tempfile::tempdir().unwrap();
+    let png = dir.path().join("tagged.png");
+    let img = paint(20, 10, |x, _| if x < 10 { A } else { B });
+    let mut bytes = Vec::new();
+    let mut enc = PngEncoder::new(&mut bytes);
+    enc.set_icc_profile(inkfit::icc::builtin::bytes("srgb").unwrap().unwrap().to_vec())
+        .unwrap();
+    enc.write_image(&img, 20, 10, ExtendedColorType::Rgb8).unwrap();
+    std::fs::write(&png, bytes).unwrap();
+    let v = json(&run(&["check", png.to_str().unwrap(), "--json"]));
+    let notes: Vec<&str> = v["notes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|n| n.as_str().unwrap())
+        .collect();
+    assert!(
+        notes.iter().any(|n| n.contains("tagged.png embeds an ICC profile")),
+        "{notes:?}"
+    );
+    // Without one, no such note.
+    let plain = dir.path().join("plain.png");
+    write_png(&plain, 20, 10, &img, ExtendedColorType::Rgb8);
+    let v = json(&run(&["check", plain.to_str().unwrap(), "--json"]));
+    assert!(!v["notes"].to_string().contains("embeds an ICC profile"));
+}

@@ -230,7 +230,8 @@ pub fn check_against(
         GamutTest::RoundTrip
     };
     let boundary_ink = press_gamut.and_then(|g| g.ink_limit).map(|l| l.percent);
-    let notes = notes(screen, press, opts.mapping);
+    let mut notes = notes(screen, press, opts.mapping);
+    notes.extend(palette.notes.iter().cloned());
     Ok(CheckReport {
         palette: palette.source.clone(),
         conditions: Conditions::new(

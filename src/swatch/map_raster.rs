@@ -420,7 +420,13 @@ pub fn read_map(path: &Path, opts: &MapOptions) -> Result<Palette, PaletteError>
         count,
         limit: MAX_ENTRIES,
     })?;
-    palette_of(&file, &m)
+    let mut p = palette_of(&file, &m)?;
+    if info.icc.is_some() {
+        p.notes.push(format!(
+            "{file} embeds an ICC profile; its class colours are taken as RGB of the screen profile, not converted from the embedded one"
+        ));
+    }
+    Ok(p)
 }
 
 /// The palette of a map's classes.
@@ -464,6 +470,7 @@ pub fn palette_of(file: &str, m: &MapClasses) -> Result<Palette, PaletteError> {
         scheme_hint: None,
         adjacency: Some(Adjacency::new(AdjacencySource::Map, touching)),
         unclassified_share: Some(m.unclassified_share()),
+        notes: Vec::new(),
     })
 }
 

@@ -63,6 +63,9 @@ pub struct Palette {
     pub adjacency: Option<adjacency::Adjacency>,
     /// For a map image, the share of the map no class covers.
     pub unclassified_share: Option<f64>,
+    /// What the reader noticed that the check should say (a map image's
+    /// embedded profile that was not applied).
+    pub notes: Vec<String>,
 }
 
 /// Why a palette could not be read. Each names the file and, where it
@@ -287,6 +290,7 @@ impl Palette {
             scheme_hint,
             adjacency: None,
             unclassified_share: None,
+            notes: Vec::new(),
         })
     }
 }

@@ -495,6 +495,7 @@ fn with_positions(palette: &Palette, o: &[LabD50], x: &[LabD50], screen: &IccPro
         scheme_hint: palette.scheme_hint,
         adjacency: palette.adjacency.clone(),
         unclassified_share: palette.unclassified_share,
+        notes: palette.notes.clone(),
     })
 }
 
