@@ -244,6 +244,8 @@ fn march_tetrahedron(
 pub struct Locator {
     mesh: Mesh,
     buckets: Vec<Bucket>,
+    /// The largest bucket radius.
+    bucket_radius: f64,
     /// Triangles around each vertex.
     around: Vec<Vec<u32>>,
 }
@@ -354,7 +356,13 @@ impl Locator {
                 around[v as usize].push(t as u32);
             }
         }
-        Locator { mesh, buckets, around }
+        let bucket_radius = buckets.iter().map(|b| b.radius).fold(0.0, f64::max);
+        Locator {
+            mesh,
+            buckets,
+            bucket_radius,
+            around,
+        }
     }
 
     /// The mesh searched.
@@ -410,8 +418,7 @@ impl Locator {
     fn nearest_vertex_wide(&self, lab: LabD50) -> Option<(f64, u32)> {
         let f = F_DE00_PER_DE_AB;
         let ranked = self.ranked(|b| delta_e00(lab, b.centroid));
-        let bucket_radius = self.buckets.iter().map(|b| b.radius).fold(0.0, f64::max);
-        let cut = ranked.first().map_or(0.0, |r| r.0) + 2.0 * f * bucket_radius;
+        let cut = ranked.first().map_or(0.0, |r| r.0) + 2.0 * f * self.bucket_radius;
         let subs: Vec<(f64, &Sub)> = ranked
             .iter()
             .enumerate()

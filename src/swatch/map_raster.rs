@@ -122,7 +122,7 @@ fn dist2(a: &[u8], b: [u8; 3]) -> u32 {
 }
 
 /// The classes of an 8-bit RGB image (`rgb`: 3 bytes per pixel, rows top
-/// down); `opaque` per pixel: `Some(true)` fully opaque, `Some(false)` partly
+/// down); `opacity` per pixel: `Some(true)` fully opaque, `Some(false)` partly
 /// transparent, `None` fully transparent (not part of the map). An image of
 /// more than [`MAX_ENTRIES`] classes is an error (the count).
 pub fn find_classes(
@@ -474,18 +474,23 @@ pub fn palette_of(file: &str, m: &MapClasses) -> Result<Palette, PaletteError> {
     })
 }
 
+/// A screen colour's 8-bit codes, unclamped (so a colour outside 0–255
+/// matches no pixel); `None` for a press colour.
+pub(crate) fn code8(c: &crate::color::css::ColorInput) -> Option<[i64; 3]> {
+    match c {
+        crate::color::css::ColorInput::ScreenRgb(v) => Some(v.map(|x| (x * 255.0).round() as i64)),
+        _ => None,
+    }
+}
+
 /// Names a map's classes from a legend palette: a class whose colour is,
 /// to the 8-bit code, the colour of a legend entry takes that entry's name
 /// (the first such entry). Returns how many classes were named.
 pub fn name_classes(map: &mut Palette, legend: &Palette) -> usize {
-    let code = |c: &crate::color::css::ColorInput| match c {
-        crate::color::css::ColorInput::ScreenRgb(v) => Some(v.map(|x| (x * 255.0).round() as i64)),
-        _ => None,
-    };
     let mut named = 0;
     for e in &mut map.entries {
-        let Some(k) = code(&e.color) else { continue };
-        if let Some(l) = legend.entries.iter().find(|l| code(&l.color) == Some(k)) {
+        let Some(k) = code8(&e.color) else { continue };
+        if let Some(l) = legend.entries.iter().find(|l| code8(&l.color) == Some(k)) {
             e.name = l.name.clone();
             named += 1;
         }

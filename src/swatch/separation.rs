@@ -138,7 +138,7 @@ pub struct Separation {
     /// The floor of pairs that do not touch, when an adjacency is known.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub min_legend_separation: Option<f64>,
-    /// Where the adjacency comes from (`map` or `file`), when one is known.
+    /// Where the adjacency comes from (`map`, `render` or `file`), when one is known.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub adjacency: Option<AdjacencySource>,
     /// How many pairs touch, when an adjacency is known.

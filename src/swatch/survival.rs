@@ -207,19 +207,9 @@ pub struct Survival {
     pub problems: Vec<Finding>,
 }
 
-/// CVD separation: simulate both the screen and the printed colours.
+/// CVD separation: simulate both the screen and the printed colours;
+/// `progress` is told the pairs compared.
 pub fn cvd_separation(
-    sim: &Simulator,
-    names: &[String],
-    screen: &[LabD50],
-    print: &[LabD50],
-    rule: &SeparationRule<'_>,
-) -> CvdResult {
-    cvd_separation_with(sim, names, screen, print, rule, &|_| {})
-}
-
-/// [`cvd_separation`], telling `progress` the pairs compared.
-pub fn cvd_separation_with(
     sim: &Simulator,
     names: &[String],
     screen: &[LabD50],
@@ -269,7 +259,7 @@ pub fn analyse_with(
     let cvd = (!sims.is_empty()).then(|| {
         let mut r = CvdReport::default();
         for s in &sims {
-            let res = Some(cvd_separation_with(s, names, screen, print, &rule, progress));
+            let res = Some(cvd_separation(s, names, screen, print, &rule, progress));
             match s.deficiency {
                 Deficiency::Protan => r.protan = res,
                 Deficiency::Deutan => r.deutan = res,

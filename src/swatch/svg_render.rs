@@ -7,19 +7,11 @@
 //! Text is not drawn (resvg is built without text support).
 
 use super::adjacency::{Adjacency, AdjacencySource};
-use super::map_raster::{find_classes, MIN_BORDER_PX};
+use super::map_raster::{code8, find_classes, MIN_BORDER_PX};
 use super::{Palette, PaletteError};
-use crate::color::css::ColorInput;
 
 /// The rendering's longer side, pixels: borders are counted at this size.
 pub const RENDER_LONG_SIDE: f32 = 1024.0;
-
-fn code(c: &ColorInput) -> Option<[u8; 3]> {
-    match c {
-        ColorInput::ScreenRgb(v) => Some(v.map(|x| (x * 255.0).round().clamp(0.0, 255.0) as u8)),
-        _ => None,
-    }
-}
 
 /// Renders the artwork `text` (already read into `palette`) and gives the
 /// palette the shares and adjacency of the colours that paint areas.
@@ -57,7 +49,12 @@ pub fn find_touching(file: &str, text: &str, palette: &mut Palette, min_class_sh
     let entry_of: Vec<Option<usize>> = m
         .classes
         .iter()
-        .map(|c| palette.entries.iter().position(|e| code(&e.color) == Some(c.rgb)))
+        .map(|c| {
+            palette
+                .entries
+                .iter()
+                .position(|e| code8(&e.color) == Some(c.rgb.map(i64::from)))
+        })
         .collect();
     let mut known = vec![false; palette.entries.len()];
     for (ci, e) in entry_of.iter().enumerate() {
