@@ -5,6 +5,7 @@
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use inkfit::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
+use inkfit::color::delta_batch::LabSet;
 use inkfit::color::LabD50;
 
 const PAIRS: usize = 10_000;
@@ -43,5 +44,20 @@ fn delta_e(c: &mut Criterion) {
     });
 }
 
-criterion_group!(benches, delta_e);
+/// The screening ΔE00² of one colour against 10,000 (one row of a large
+/// palette's pair triangle): criterion's time per iteration / 10,000 is the
+/// time per pair.
+fn screened_row(c: &mut Criterion) {
+    let labs: Vec<LabD50> = pairs().into_iter().map(|(p, _)| p).collect();
+    let set = LabSet::new(&labs);
+    let mut out = Vec::new();
+    c.bench_function("screened ΔE00² row of 10,000", |b| {
+        b.iter(|| {
+            set.squared_row(black_box(0), 1, &mut out);
+            black_box(out[5])
+        })
+    });
+}
+
+criterion_group!(benches, delta_e, screened_row);
 criterion_main!(benches);

@@ -11,6 +11,7 @@
 pub mod css;
 pub mod cvd;
 pub mod delta;
+pub mod delta_batch;
 pub mod named;
 pub mod spaces;
 pub mod spectral;

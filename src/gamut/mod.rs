@@ -32,6 +32,7 @@ mod coverage;
 pub mod export;
 pub mod grid;
 mod ink_domain;
+mod locate;
 pub mod mesh;
 pub mod result;
 
@@ -48,7 +49,8 @@ use crate::icc::{inspect, IccProfile, RenderingIntent};
 pub use coverage::{coverage_all, coverage_pair, Coverage, COVERAGE_MAX_VOXELS};
 use grid::{Grid, GridError, Solid};
 pub use ink_domain::ink_domain_faces;
-use mesh::{Locator, Mesh};
+use locate::Locator;
+use mesh::Mesh;
 
 /// Why a profile's gamut cannot be computed. Each names the profile.
 #[derive(Debug, thiserror::Error)]

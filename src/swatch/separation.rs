@@ -17,6 +17,7 @@ use serde::Serialize;
 
 use super::adjacency::{Adjacency, AdjacencySource};
 use crate::color::delta::delta_e00;
+use crate::color::delta_batch::{at_least, below, LabSet, ABS, REL};
 use crate::color::LabD50;
 
 /// Default separation floor, ΔE00 10: map classes that must be told apart at
@@ -210,7 +211,6 @@ impl Ord for Found {
 }
 
 /// What one stretch of rows of the pair triangle found.
-#[derive(Default)]
 struct Tally {
     min_s: Option<(f64, [usize; 2])>,
     min_p: Option<(f64, [usize; 2])>,
@@ -221,6 +221,28 @@ struct Tally {
     lost_half: usize,
     /// Every pair in order, when every pair is listed.
     all: Vec<(usize, usize, f64, f64)>,
+    /// Screened values above these cannot be the closest pair on screen,
+    /// in print, or be listed (kept with the minima and the heap).
+    min_s_cut: f64,
+    min_p_cut: f64,
+    listed_cut: f64,
+}
+
+impl Default for Tally {
+    fn default() -> Self {
+        Tally {
+            min_s: None,
+            min_p: None,
+            smallest: Default::default(),
+            flagged: 0,
+            below_floor: 0,
+            lost_half: 0,
+            all: Vec::new(),
+            min_s_cut: f64::INFINITY,
+            min_p_cut: f64::INFINITY,
+            listed_cut: f64::INFINITY,
+        }
+    }
 }
 
 fn lesser(a: Option<(f64, [usize; 2])>, b: Option<(f64, [usize; 2])>) -> Option<(f64, [usize; 2])> {
@@ -231,14 +253,118 @@ fn lesser(a: Option<(f64, [usize; 2])>, b: Option<(f64, [usize; 2])>) -> Option<
     }
 }
 
+/// The tests on screened values (squared ΔE00, see [`crate::color::delta_batch`])
+/// that decide a pair's flags for a given pair of floors.
+#[derive(Clone, Copy, Debug)]
+struct Cuts {
+    /// Printed at least this: at or above every floor.
+    above_floors: f64,
+    /// Printed below this: below every floor.
+    below_floors: f64,
+    /// Printed at least `kept.0`·screen + `kept.1`: print ≥ screen / 2.
+    kept: (f64, f64),
+    /// Printed below `lost.0`·screen + `lost.1`: print < screen / 2.
+    lost: (f64, f64),
+}
+
+impl Cuts {
+    fn new(rule: &SeparationRule<'_>) -> Self {
+        let (lo, hi) = (rule.floor.min(rule.legend_floor), rule.floor.max(rule.legend_floor));
+        // D_p ≥ D_s / 4 when (D̂p − ABS)/(1 + REL) ≥ (D̂s + ABS)/(4(1 − REL));
+        // D_p < D_s / 4 when (D̂p + ABS)/(1 − REL) < (D̂s − ABS)/(4(1 + REL)).
+        let k = (1.0 + REL) / (4.0 * (1.0 - REL));
+        let l = (1.0 - REL) / (4.0 * (1.0 + REL));
+        Cuts {
+            above_floors: at_least(hi * hi),
+            below_floors: below(lo * lo),
+            kept: (k, k * ABS + ABS),
+            lost: (l, -l * ABS - ABS),
+        }
+    }
+}
+
 impl Tally {
+    fn count(&mut self, below_floor: bool, lost_half: bool) {
+        self.flagged += 1;
+        self.below_floor += usize::from(below_floor);
+        self.lost_half += usize::from(lost_half);
+    }
+
+    /// Takes a pair's exact screen and printed ΔE00 as candidates for the
+    /// closest pairs.
+    fn offer_minima(&mut self, s: f64, p: f64, pair: [usize; 2]) {
+        self.min_s = lesser(self.min_s, Some((s, pair)));
+        self.min_p = lesser(self.min_p, Some((p, pair)));
+        self.refresh_cuts();
+    }
+
+    fn refresh_cuts(&mut self) {
+        self.min_s_cut = self.min_s.map_or(f64::INFINITY, |(v, _)| at_least(v * v));
+        self.min_p_cut = self.min_p.map_or(f64::INFINITY, |(v, _)| at_least(v * v));
+        self.listed_cut = match self.smallest.peek() {
+            // A listed pair's rounded print is at most the largest listed.
+            Some(top) if self.smallest.len() >= MAX_PAIRS_LISTED => at_least((top.print + 0.006).powi(2)),
+            _ => f64::INFINITY,
+        };
+    }
+
+    /// Decides a pair from its screened squared screen and printed ΔE00
+    /// (`floor`: the pair's own floor), counting it when flagged: true when
+    /// decided, false when the pair needs its exact ΔE00 (the bound cannot
+    /// decide a flag, or the pair may be the closest one or among the
+    /// listed flagged ones). NaN values are never decided.
+    #[inline]
+    fn screen(&mut self, ds: f32, dp: f32, cuts: &Cuts, floor: impl Fn() -> f64) -> bool {
+        let (s, p) = (f64::from(ds), f64::from(dp));
+        if !(s > self.min_s_cut && p > self.min_p_cut) {
+            return false;
+        }
+        let kept = p >= cuts.kept.0 * s + cuts.kept.1;
+        if kept && p >= cuts.above_floors {
+            // Most pairs: clear of every floor and of the lost-half edge.
+            return true;
+        }
+        let below_floor = if p >= cuts.above_floors {
+            false
+        } else if p < cuts.below_floors {
+            true
+        } else {
+            let f = floor();
+            let f = f * f;
+            if p >= at_least(f) {
+                false
+            } else if p < below(f) {
+                true
+            } else {
+                return false;
+            }
+        };
+        let lost_half = if kept {
+            false
+        } else if p < cuts.lost.0 * s + cuts.lost.1 {
+            true
+        } else {
+            return false;
+        };
+        if below_floor || lost_half {
+            if p <= self.listed_cut {
+                return false;
+            }
+            self.count(below_floor, lost_half);
+        }
+        true
+    }
+
     fn keep(&mut self, f: Found) {
         if self.smallest.len() < MAX_PAIRS_LISTED {
             self.smallest.push(f);
         } else if self.smallest.peek().is_some_and(|top| f < *top) {
             self.smallest.pop();
             self.smallest.push(f);
+        } else {
+            return;
         }
+        self.refresh_cuts();
     }
 
     fn merge(mut self, o: Tally) -> Tally {
@@ -251,6 +377,7 @@ impl Tally {
             self.keep(f);
         }
         self.all.extend(o.all);
+        self.refresh_cuts();
         self
     }
 }
@@ -272,6 +399,13 @@ pub fn separation(names: &[String], screen: &[LabD50], print: &[LabD50], rule: &
 
 /// [`separation`], telling `progress` how many pairs each finished row held
 /// (from worker threads; the counts add up to n·(n − 1)/2).
+///
+/// Above [`MAX_ENTRIES_LISTING_ALL_PAIRS`] entries a pair is first screened
+/// with the bounded single-precision ΔE00² of [`crate::color::delta_batch`]:
+/// a pair whose flags the bound decides, and which cannot be the closest
+/// pair or among the listed flagged ones, is only counted. Every other pair,
+/// and every pair of a smaller palette, gets the exact ΔE00, so the result
+/// equals that of the exact comparison of all pairs.
 pub fn separation_with(
     names: &[String],
     screen: &[LabD50],
@@ -279,40 +413,69 @@ pub fn separation_with(
     rule: &SeparationRule<'_>,
     progress: &(dyn Fn(u64) + Sync),
 ) -> Separation {
-    use rayon::prelude::*;
     let n = screen.len().min(print.len());
+    let screened = n > MAX_ENTRIES_LISTING_ALL_PAIRS;
+    tally(names, &screen[..n], &print[..n], rule, progress, screened)
+}
+
+/// The pair rows, screened or all exact; then the result.
+fn tally(
+    names: &[String],
+    screen: &[LabD50],
+    print: &[LabD50],
+    rule: &SeparationRule<'_>,
+    progress: &(dyn Fn(u64) + Sync),
+    screened: bool,
+) -> Separation {
+    use rayon::prelude::*;
+    let n = screen.len();
     let list_all = n <= MAX_ENTRIES_LISTING_ALL_PAIRS;
-    let row = |i: usize| {
-        let mut t = Tally::default();
-        for j in i + 1..n {
-            let s = delta_e00(screen[i], screen[j]);
-            let p = delta_e00(print[i], print[j]);
-            t.min_s = lesser(t.min_s, Some((s, [i + 1, j + 1])));
-            t.min_p = lesser(t.min_p, Some((p, [i + 1, j + 1])));
-            let (_, floor) = rule.of_pair(i, j);
-            let (below_floor, lost_half) = pair_flags(s, p, floor);
-            let (s2, p2) = (round(s, 2), round(p, 2));
-            if list_all {
-                t.all.push((i, j, s2, p2));
-            }
-            if below_floor || lost_half {
-                t.flagged += 1;
-                t.below_floor += usize::from(below_floor);
-                t.lost_half += usize::from(lost_half);
-                t.keep(Found {
-                    print: p2,
-                    screen: s2,
-                    i,
-                    j,
-                    below_floor,
-                    lost_half,
-                });
+    let exact = |t: &mut Tally, i: usize, j: usize| {
+        let s = delta_e00(screen[i], screen[j]);
+        let p = delta_e00(print[i], print[j]);
+        t.offer_minima(s, p, [i + 1, j + 1]);
+        let (_, floor) = rule.of_pair(i, j);
+        let (below_floor, lost_half) = pair_flags(s, p, floor);
+        let (s2, p2) = (round(s, 2), round(p, 2));
+        if list_all {
+            t.all.push((i, j, s2, p2));
+        }
+        if below_floor || lost_half {
+            t.count(below_floor, lost_half);
+            t.keep(Found {
+                print: p2,
+                screen: s2,
+                i,
+                j,
+                below_floor,
+                lost_half,
+            });
+        }
+    };
+    let sets = screened.then(|| (LabSet::new(screen), LabSet::new(print)));
+    let cuts = Cuts::new(rule);
+    let row = |(mut t, mut ds, mut dp): (Tally, Vec<f32>, Vec<f32>), i: usize| {
+        match &sets {
+            None => (i + 1..n).for_each(|j| exact(&mut t, i, j)),
+            Some((ss, ps)) => {
+                ss.squared_row(i, i + 1, &mut ds);
+                ps.squared_row(i, i + 1, &mut dp);
+                for (k, (&s, &p)) in ds.iter().zip(&dp).enumerate() {
+                    let j = i + 1 + k;
+                    if !t.screen(s, p, &cuts, || rule.of_pair(i, j).1) {
+                        exact(&mut t, i, j);
+                    }
+                }
             }
         }
         progress((n - i - 1) as u64);
-        t
+        (t, ds, dp)
     };
-    let t = (0..n).into_par_iter().map(row).reduce(Tally::default, Tally::merge);
+    let t = (0..n)
+        .into_par_iter()
+        .fold(|| (Tally::default(), Vec::new(), Vec::new()), row)
+        .map(|(t, _, _)| t)
+        .reduce(Tally::default, Tally::merge);
     let pair_of = |i: usize, j: usize, screen: f64, print: f64| Pair {
         a: i + 1,
         b: j + 1,
@@ -422,5 +585,52 @@ mod tests {
         assert_eq!(s.pairs_listed, PairsListed::Flagged);
         assert_eq!(s.pairs.len(), s.flagged.len());
         assert!(s.pairs.len() < n * (n - 1) / 2);
+    }
+
+    /// The screened comparison gives the very result of comparing every
+    /// pair exactly (the property the screen must hold), on a palette with
+    /// duplicates, greys, near-equal and near-opposite colours, with and
+    /// without an adjacency.
+    #[test]
+    fn screening_changes_nothing() {
+        let mut state: u64 = 0x5eed;
+        let mut unit = move || {
+            state = state
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            (state >> 11) as f64 / (1u64 << 53) as f64
+        };
+        let mut screen = Vec::new();
+        let mut print = Vec::new();
+        for k in 0..400 {
+            let s = LabD50::new(100.0 * unit(), 200.0 * unit() - 100.0, 200.0 * unit() - 100.0);
+            let p = match k % 5 {
+                // A print that keeps about half the screen difference, so
+                // that many pairs sit near the lost-half edge.
+                0 => LabD50::new(50.0 + 0.5 * (s.l - 50.0), 0.5 * s.a, 0.5 * s.b),
+                1 => LabD50::new(s.l, 0.0, 0.0),
+                2 if k > 10 => print[k - 5],
+                3 => LabD50::new(s.l, -s.a, -s.b),
+                _ => LabD50::new(s.l + unit(), s.a * 0.7, s.b * 0.7 + unit()),
+            };
+            screen.push(s);
+            print.push(p);
+        }
+        let names = names(screen.len());
+        let touching = (0..400).step_by(3).map(|i| ((i, i + 1), Some(4))).collect();
+        let adjacency = Adjacency::new(AdjacencySource::File, touching);
+        for rule in [
+            SeparationRule::all_pairs(10.0),
+            SeparationRule {
+                floor: 12.0,
+                legend_floor: 6.0,
+                adjacency: Some(&adjacency),
+            },
+        ] {
+            let exact = tally(&names, &screen, &print, &rule, &|_| {}, false);
+            let screened = tally(&names, &screen, &print, &rule, &|_| {}, true);
+            assert!(exact.flagged_count > MAX_PAIRS_LISTED, "{}", exact.flagged_count);
+            assert_eq!(screened, exact);
+        }
     }
 }
