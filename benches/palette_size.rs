@@ -43,7 +43,7 @@ fn bench_sizes(c: &mut Criterion) {
     g.sample_size(10);
     let demo = Palette::read("fixtures/demo/landuse.csv".as_ref()).unwrap();
     g.bench_function("demo_9", |b| b.iter(|| whole_check(&demo)));
-    for n in [256, 2_500] {
+    for n in [256, 2_500, 10_000] {
         let p = Palette::parse("bench", &palette_text(n, 0x2545_f491), Format::Text).unwrap();
         g.bench_function(format!("random_{n}"), |b| b.iter(|| whole_check(&p)));
     }
