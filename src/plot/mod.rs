@@ -9,6 +9,7 @@
 
 pub mod figure;
 pub mod geometry;
+pub mod labels;
 pub mod locus;
 pub mod svg;
 

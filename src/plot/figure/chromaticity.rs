@@ -5,6 +5,9 @@
 
 use super::*;
 
+/// Font size of the Planckian locus's temperature labels.
+const PLANCK_FONT: f64 = FONT - 3.0;
+
 /// The diagram's coordinates: the panel, and xy or u′v′.
 struct Diagram {
     panel: Panel,
@@ -73,13 +76,13 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
     axes(&mut svg, &p, d.step, axis_labels(d.uv), "main");
     spectral_locus_lines(&mut svg, &d, &locus);
     wavelength_ticks(&mut svg, &d);
-    planckian_locus(&mut svg, &d);
+    let mut fixed = planckian_locus(&mut svg, &d);
     profile_outlines(&mut svg, &d, fig);
-    white_points(&mut svg, &d);
+    fixed.extend(white_points(&mut svg, &d));
     collapsed_pairs(&mut svg, &d, fig);
-    palette(&mut svg, &d, fig);
+    let left_off = palette(&mut svg, &d, fig, fixed);
     legend(&mut svg, fig, legend_x, p.y0 + 10.0);
-    title_and_captions(&mut svg, &d, fig);
+    title_and_captions(&mut svg, &d, fig, left_off);
     svg.finish()
 }
 
@@ -171,7 +174,6 @@ fn spectral_locus_lines(svg: &mut Svg, d: &Diagram, locus: &[(f64, [f64; 2])]) {
 
 /// Ticks and labels at [`LABELLED_NM`] on the locus, pointing away from white.
 fn wavelength_ticks(svg: &mut Svg, d: &Diagram) {
-    let p = &d.panel;
     svg.open(
         "g",
         &[
@@ -180,44 +182,96 @@ fn wavelength_ticks(svg: &mut Svg, d: &Diagram) {
             ("fill", s("#222222")),
         ],
     );
-    let wc = p.px(d.white);
-    for nm in LABELLED_NM {
-        let Some(c) = locus_at(nm).and_then(|c| d.map(c)) else {
-            continue;
-        };
-        let q = p.px(c);
-        let d = [q[0] - wc[0], q[1] - wc[1]];
-        let len = d[0].hypot(d[1]).max(1e-9);
-        let u = [d[0] / len, d[1] / len];
-        let t1 = [q[0] + 6.0 * u[0], q[1] + 6.0 * u[1]];
-        let lp = [q[0] + 16.0 * u[0], q[1] + 16.0 * u[1] + 4.0];
+    for t in wavelength_labels(d) {
         svg.open(
             "g",
-            &[("class", s("wavelength-label")), ("data-nm", format!("{nm:.0}"))],
+            &[("class", s("wavelength-label")), ("data-nm", format!("{:.0}", t.nm))],
         );
         svg.empty(
             "line",
             &[
-                ("x1", num(q[0])),
-                ("y1", num(q[1])),
-                ("x2", num(t1[0])),
-                ("y2", num(t1[1])),
+                ("x1", num(t.at[0])),
+                ("y1", num(t.at[1])),
+                ("x2", num(t.tick_end[0])),
+                ("y2", num(t.tick_end[1])),
                 ("stroke", s("#000000")),
                 ("stroke-width", s("1")),
             ],
         );
         svg.text(
             "text",
-            &[("x", num(lp[0])), ("y", num(lp[1])), ("text-anchor", s("middle"))],
-            &format!("{nm:.0} nm"),
+            &[
+                ("x", num(t.text[0])),
+                ("y", num(t.text[1])),
+                ("text-anchor", s("middle")),
+            ],
+            &t.label,
         );
         svg.close();
     }
     svg.close();
 }
 
+/// One wavelength's tick and label.
+struct WavelengthLabel {
+    nm: f64,
+    /// The locus point.
+    at: [f64; 2],
+    tick_end: [f64; 2],
+    /// The text's centre x and baseline y.
+    text: [f64; 2],
+    label: String,
+    rect: Rect,
+}
+
+/// The labelled wavelengths: a tick pointing away from the equal-energy
+/// point, the label beyond it; a label that would leave the plot area
+/// (over the frame or an axis title) goes on the inner side of the locus.
+fn wavelength_labels(d: &Diagram) -> Vec<WavelengthLabel> {
+    let p = &d.panel;
+    let font = FONT - 2.0;
+    let area = Rect {
+        x0: p.x0 + 2.0,
+        y0: p.y0 + 2.0,
+        x1: p.x0 + p.w - 2.0,
+        y1: p.y0 + p.h - 2.0,
+    };
+    let wc = p.px(d.white);
+    let mut out = Vec::new();
+    for nm in LABELLED_NM {
+        let Some(c) = locus_at(nm).and_then(|c| d.map(c)) else {
+            continue;
+        };
+        let q = p.px(c);
+        let v = [q[0] - wc[0], q[1] - wc[1]];
+        let len = v[0].hypot(v[1]).max(1e-9);
+        let u = [v[0] / len, v[1] / len];
+        let label = format!("{nm:.0} nm");
+        let at_side = |sign: f64| {
+            let t1 = [q[0] + sign * 6.0 * u[0], q[1] + sign * 6.0 * u[1]];
+            let lp = [q[0] + sign * 18.0 * u[0], q[1] + sign * 18.0 * u[1] + 0.3 * font];
+            let rect = labels::text_box(lp[0], lp[1], &label, font, "middle");
+            (t1, lp, rect)
+        };
+        let (mut t1, mut lp, mut rect) = at_side(1.0);
+        if !rect.inside(&area) {
+            (t1, lp, rect) = at_side(-1.0);
+        }
+        out.push(WavelengthLabel {
+            nm,
+            at: q,
+            tick_end: t1,
+            text: lp,
+            label,
+            rect,
+        });
+    }
+    out
+}
+
 /// The Planckian locus with marks at [`MARKED_KELVIN`].
-fn planckian_locus(svg: &mut Svg, d: &Diagram) {
+fn planckian_locus(svg: &mut Svg, d: &Diagram) -> Vec<Rect> {
+    let mut rects = Vec::new();
     let p = &d.panel;
     // Planckian locus, 1667–25000 K on a logarithmic spacing of temperatures.
     let temps: Vec<f64> = (0..=60)
@@ -231,7 +285,7 @@ fn planckian_locus(svg: &mut Svg, d: &Diagram) {
         "g",
         &[
             ("id", s("planckian")),
-            ("font-size", num(FONT - 3.0)),
+            ("font-size", num(PLANCK_FONT)),
             ("fill", s("#222222")),
         ],
     );
@@ -261,6 +315,9 @@ fn planckian_locus(svg: &mut Svg, d: &Diagram) {
             ],
         );
         // Labels below the curve, away from the white points above it.
+        let label = format!("{t:.0} K");
+        rects.push(labels::text_box(q[0] + 3.0, q[1] + 12.0, &label, PLANCK_FONT, "start"));
+        rects.push(Rect::around(q, 2.0, 2.0));
         svg.text(
             "text",
             &[
@@ -268,11 +325,12 @@ fn planckian_locus(svg: &mut Svg, d: &Diagram) {
                 ("y", num(q[1] + 12.0)),
                 ("text-anchor", s("start")),
             ],
-            &format!("{t:.0} K"),
+            &label,
         );
         svg.close();
     }
     svg.close();
+    rects
 }
 
 /// The outline of each profile's gamut.
@@ -294,7 +352,8 @@ fn profile_outlines(svg: &mut Svg, d: &Diagram, fig: &Figure) {
 }
 
 /// D50 and D65.
-fn white_points(svg: &mut Svg, d: &Diagram) {
+fn white_points(svg: &mut Svg, d: &Diagram) -> Vec<Rect> {
+    let mut rects = Vec::new();
     let p = &d.panel;
     // White points.
     svg.open(
@@ -330,6 +389,8 @@ fn white_points(svg: &mut Svg, d: &Diagram) {
             ],
         );
         let anchor = if dx > 0.0 { "start" } else { "end" };
+        rects.push(labels::text_box(q[0] + dx, q[1] - 4.0, label, FONT - 2.0, anchor));
+        rects.push(Rect::around(q, 5.0, 5.0));
         svg.text(
             "text",
             &[
@@ -342,6 +403,7 @@ fn white_points(svg: &mut Svg, d: &Diagram) {
         svg.close();
     }
     svg.close();
+    rects
 }
 
 /// Pairs that collapse in print, joined where they print.
@@ -386,11 +448,11 @@ fn collapsed_pairs(svg: &mut Svg, d: &Diagram, fig: &Figure) {
     }
 }
 
-/// Each palette colour with its arrow from screen to print.
-fn palette(svg: &mut Svg, d: &Diagram, fig: &Figure) {
+/// Each palette colour with its arrow from screen to print, and its name.
+fn palette(svg: &mut Svg, d: &Diagram, fig: &Figure, mut fixed: Vec<Rect>) -> usize {
     let p = &d.panel;
-    // Palette.
     svg.open("g", &[("id", s("palette"))]);
+    let mut named: Vec<([f64; 2], String)> = Vec::new();
     for sw in &fig.swatches {
         let Some(at) = lab_to_xy(sw.screen_lab).and_then(|c| d.map(c)).map(|q| p.px(q)) else {
             continue;
@@ -401,12 +463,15 @@ fn palette(svg: &mut Svg, d: &Diagram, fig: &Figure) {
             .and_then(|c| d.map(c))
             .map(|q| p.px(q));
         swatch(svg, sw, at, to);
+        named.push((at, sw.name.clone()));
     }
     svg.close();
+    fixed.extend(wavelength_labels(d).into_iter().map(|t| t.rect));
+    marker_names(svg, p, &named, &fixed)
 }
 
 /// Title and the caption lines.
-fn title_and_captions(svg: &mut Svg, d: &Diagram, fig: &Figure) {
+fn title_and_captions(svg: &mut Svg, d: &Diagram, fig: &Figure, left_off: usize) {
     let p = &d.panel;
     let title = if d.uv {
         "CIE 1976 u′v′ chromaticity diagram"
@@ -418,6 +483,9 @@ fn title_and_captions(svg: &mut Svg, d: &Diagram, fig: &Figure) {
         mapping_line(fig),
         "The background tints only hint at hue; they are not the colours of those chromaticities.".to_string(),
     ];
+    if left_off > 0 {
+        caption.push(names_left_off(left_off));
+    }
     if d.uv {
         caption.push(
             "u′v′ spaces colours more evenly than xy: equal distances are closer to equal visible differences."

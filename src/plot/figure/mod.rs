@@ -11,6 +11,7 @@ mod chromaticity;
 mod sections;
 
 use super::geometry::lab_to_xy;
+use super::labels::{self, Rect};
 use super::locus::{locus_at, planckian_xy, spectral_locus, uv_prime};
 use super::svg::{num, path_data, Svg};
 use super::{Figure, PlotKind, Swatch};
@@ -464,6 +465,80 @@ fn swatch(svg: &mut Svg, sw: &Swatch, at: [f64; 2], to: Option<[f64; 2]>) {
     marker(svg, at, cls, &hex_of(sw.screen_lab));
     svg.text("title", &[], &sw.name);
     svg.close();
+}
+
+/// Most palette markers a figure names; a bigger palette's figure names
+/// none (its markers keep their `<title>`), as its labels could only cover
+/// the diagram.
+pub const MAX_NAMED_MARKERS: usize = 60;
+
+/// The names of the markers at `named` (pixels), placed clear of each other,
+/// of the markers and of `obstacles` within the panel, with leader lines
+/// where they stand off. Returns how many were left off for want of room.
+fn marker_names(svg: &mut Svg, p: &Panel, named: &[([f64; 2], String)], obstacles: &[Rect]) -> usize {
+    if named.is_empty() || named.len() > MAX_NAMED_MARKERS {
+        return 0;
+    }
+    let font = FONT - 1.0;
+    let bounds = Rect {
+        x0: p.x0 + 2.0,
+        y0: p.y0 + 2.0,
+        x1: p.x0 + p.w - 2.0,
+        y1: p.y0 + p.h - 2.0,
+    };
+    let points: Vec<[f64; 2]> = named.iter().map(|n| n.0).collect();
+    let texts: Vec<String> = named.iter().map(|n| n.1.clone()).collect();
+    let placed = labels::place(&points, &texts, font, bounds, obstacles);
+    svg.open(
+        "g",
+        &[
+            ("id", s("palette-names")),
+            ("font-size", num(font)),
+            ("fill", s("#111111")),
+        ],
+    );
+    for ((at, name), pl) in named.iter().zip(&placed) {
+        let Some(pl) = pl else { continue };
+        if let Some(end) = pl.leader {
+            svg.empty(
+                "line",
+                &[
+                    ("class", s("name-leader")),
+                    ("x1", num(at[0])),
+                    ("y1", num(at[1])),
+                    ("x2", num(end[0])),
+                    ("y2", num(end[1])),
+                    ("stroke", s("#555555")),
+                    ("stroke-width", s("0.8")),
+                ],
+            );
+        }
+        svg.text(
+            "text",
+            &[
+                ("class", s("swatch-name")),
+                ("data-name", name.clone()),
+                ("x", num(pl.x)),
+                ("y", num(pl.y)),
+                ("text-anchor", s(pl.anchor)),
+                ("stroke", s("#ffffff")),
+                ("stroke-width", s("3")),
+                ("stroke-linejoin", s("round")),
+                ("paint-order", s("stroke")),
+            ],
+            name,
+        );
+    }
+    svg.close();
+    placed.iter().filter(|p| p.is_none()).count()
+}
+
+/// The caption line for names left off a crowded figure.
+fn names_left_off(n: usize) -> String {
+    format!(
+        "{n} name{} left off where markers crowd; hover a marker for its name, or see the table.",
+        if n == 1 { "" } else { "s" }
+    )
 }
 
 fn title_and_caption(svg: &mut Svg, title: &str, caption: &[String], x: f64, y_caption: f64) {

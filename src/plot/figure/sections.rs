@@ -45,6 +45,7 @@ pub(super) fn slices(fig: &Figure) -> String {
         .enumerate()
         .map(|(k, p)| (format!("panel-{}", k + 1), *p))
         .collect();
+    let mut left_off = 0;
     let mut svg = page(legend_x, height, &clips);
     for (k, (&l, p)) in fig.lightness.iter().zip(&panels).enumerate() {
         let id = format!("panel-{}", k + 1);
@@ -85,12 +86,15 @@ pub(super) fn slices(fig: &Figure) -> String {
         }
         svg.close();
         svg.open("g", &[("class", s("palette"))]);
+        let mut named = Vec::new();
         for sw in fig.swatches.iter().filter(|sw| near(sw, l)) {
             let at = p.px([sw.screen_lab[1], sw.screen_lab[2]]);
             let to = sw.printed_lab.map(|q| p.px([q[1], q[2]]));
             swatch(&mut svg, sw, at, to);
+            named.push((at, sw.name.clone()));
         }
         svg.close();
+        left_off += marker_names(&mut svg, &p, &named, &[]);
         svg.close();
     }
     legend(&mut svg, fig, legend_x, 90.0);
@@ -104,6 +108,10 @@ pub(super) fn slices(fig: &Figure) -> String {
         },
         mapping_line(fig),
     ];
+    let mut caption = caption;
+    if left_off > 0 {
+        caption.push(names_left_off(left_off));
+    }
     title_and_caption(
         &mut svg,
         "Gamut slices in the a*b* plane",
@@ -166,12 +174,15 @@ pub(super) fn leaf(fig: &Figure) -> String {
     }
     svg.close();
     svg.open("g", &[("id", s("palette"))]);
+    let mut named = Vec::new();
     for sw in fig.swatches.iter().filter(|sw| near(sw)) {
         let at = p.px(along(sw.screen_lab));
         let to = sw.printed_lab.map(|q| p.px(along(q)));
         swatch(&mut svg, sw, at, to);
+        named.push((at, sw.name.clone()));
     }
     svg.close();
+    let left_off = marker_names(&mut svg, &p, &named, &[]);
     legend(&mut svg, fig, legend_x, p.y0 + 10.0);
     let caption = vec![
         format!("Hue leaf at h = {h:.0}°: the gamut boundaries in the half-plane of that hue (CIELAB relative to D50, relative colorimetric)."),
@@ -182,6 +193,10 @@ pub(super) fn leaf(fig: &Figure) -> String {
         },
         mapping_line(fig),
     ];
+    let mut caption = caption;
+    if left_off > 0 {
+        caption.push(names_left_off(left_off));
+    }
     title_and_caption(
         &mut svg,
         &format!("Hue leaf at {h:.0}°"),
