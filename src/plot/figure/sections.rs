@@ -94,7 +94,7 @@ pub(super) fn slices(fig: &Figure) -> String {
             named.push((at, sw.name.clone()));
         }
         svg.close();
-        left_off += marker_names(&mut svg, &p, &named, &[]);
+        left_off += marker_names(&mut svg, p, &named, &[]);
         svg.close();
     }
     legend(&mut svg, fig, legend_x, 90.0);
