@@ -49,6 +49,9 @@ pub struct CheckArgs {
     /// Also write the xy chromaticity diagram of the check (outlines, an arrow per colour) as SVG.
     #[arg(long, value_name = "FILE.svg")]
     pub svg: Option<PathBuf>,
+    /// Also write one self-contained HTML page of the check (each colour beside its print, the verdict, the figure, separation, lightness order and CVD), for looking at and sharing.
+    #[arg(long, value_name = "FILE.html")]
+    pub html: Option<PathBuf>,
     /// The palette checks beyond the per-colour results.
     #[command(flatten)]
     pub survival: SurvivalArgs,
@@ -90,6 +93,9 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
     let mut survival = a.survival.options()?;
     if let Some(p) = &a.svg {
         super::plot::check_svg_path(p)?;
+    }
+    if let Some(p) = &a.html {
+        check_html_path(p)?;
     }
     if !(a.min_class_share.is_finite() && a.min_class_share > 0.0 && a.min_class_share <= 100.0) {
         return Err(format!(
@@ -142,7 +148,7 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
     inputs.extend(a.touching.as_deref());
     inputs.extend(a.class_names.as_deref());
     let mut outputs = guarded_outputs(&inputs, &[&screen, &press]);
-    if let Some(p) = &a.svg {
+    for p in [&a.svg, &a.html].into_iter().flatten() {
         outputs.claim(p)?;
     }
     // Work that takes seconds shows a spinner on a terminal.
@@ -175,7 +181,8 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
     );
     let s = crate::swatch::survival::analyse_check_with(&r, &survival, &|k| bar.inc(k));
     bar.finish_and_clear();
-    if let Some(p) = &a.svg {
+    let mut wrote = Vec::new();
+    if a.svg.is_some() || a.html.is_some() {
         let collapsed: Vec<[usize; 2]> = s
             .separation
             .flagged
@@ -184,10 +191,43 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
             .map(|f| [f.a - 1, f.b - 1])
             .collect();
         let fig = super::plot::check_figure(&r, &screen, &press, press_gamut.as_ref(), opts.mapping, &collapsed)?;
-        super::plot::stage_figure(&mut outputs, p, &fig)?;
+        let svg = crate::plot::render(&fig);
+        if let Some(p) = &a.svg {
+            outputs.stage_bytes(p, svg.as_bytes())?;
+            wrote.push((p, "the xy figure"));
+        }
+        if let Some(p) = &a.html {
+            let v = crate::swatch::survival::verdict(&r, &s);
+            let page = crate::report::html::check::render(&crate::report::html::check::CheckPage {
+                check: &r,
+                survival: &s,
+                verdict: &v,
+                figure: Some(&svg),
+            });
+            outputs.stage_bytes(p, page.as_bytes())?;
+            wrote.push((p, "the check page"));
+        }
     }
     outputs.commit()?;
+    for (p, what) in wrote {
+        super::said_wrote(p, what);
+    }
     super::repair::finish_check(&r, &s, a.json, a.strict, use_color(), out)
+}
+
+/// An HTML page's path must end in .html or .htm: a slip of the option
+/// order must not turn a palette or figure name into a page.
+fn check_html_path(p: &std::path::Path) -> Result<(), Error> {
+    let ok = p.extension().is_some_and(|e| {
+        ["html", "htm"]
+            .iter()
+            .any(|x| e.to_string_lossy().eq_ignore_ascii_case(x))
+    });
+    if ok {
+        Ok(())
+    } else {
+        Err(format!("--html '{}': give a file ending in .html", p.display()).into())
+    }
 }
 
 pub(super) fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {

@@ -313,3 +313,9 @@ pub fn error_chain(e: &(dyn std::error::Error + 'static)) -> String {
     }
     text.replace('\n', " ")
 }
+
+/// Tells stderr what a command wrote besides its report, once every output
+/// is in place: `inkfit: wrote PATH (WHAT)`.
+pub(super) fn said_wrote(path: &std::path::Path, what: &str) {
+    eprintln!("inkfit: wrote {} ({what})", path.display());
+}

@@ -4,10 +4,20 @@
 //! lcms2, relative colorimetric. Position along the scale:
 //! `t = ln(1 + ΔE) / ln(1 + TOP)`, clamped to 0..1 (TOP = 20), so the
 //! small differences that matter in print review get most of the range.
-//! Along `t`: L* = 4 + 90·t (strictly rising: dark means no change),
-//! C*ab = 58·t^0.8·(1 − t³/2) (narrowing at the light end to stay inside sRGB), hue angle 290° + 170°·t (violet through red and orange
-//! to yellow). The lightness rise makes the map readable in greyscale and
-//! for colour-blind readers.
+//! Along `t` (our own scale, "ink to sky"):
+//! - L* = 6 + 90·t, strictly rising: dark means no change, and the map reads
+//!   the same in greyscale;
+//! - hue angle h_ab = 55° − 215°·t, turning backwards round the hue circle
+//!   from a dark umber (55°) through madder (0°) and heather (310°) to a pale
+//!   sky blue (200°), so that b* runs from positive to negative: the
+//!   blue–yellow opponent axis, which protan and deutan readers keep, carries
+//!   the scale as well as lightness does;
+//! - C*ab = 9 + 33·sin(π·t)^0.9, low at both ends (where sRGB holds little
+//!   chroma at those lightnesses) and strongest mid-scale.
+//!
+//! Tests check that L* rises, that the rendered colours' luminance rises
+//! (greyscale), also under the three simulated deficiencies, and that
+//! every point lies inside sRGB.
 //!
 //! The legend is a separate SVG file beside the map rather than pixels burnt
 //! into it: the map then stays pixel-for-pixel aligned with the original (it
@@ -36,9 +46,9 @@ pub fn position(de: f64) -> f64 {
 /// The CIELAB D50 colour at scale position `t` (0..1).
 pub fn lab_at(t: f64) -> LabD50 {
     let t = t.clamp(0.0, 1.0);
-    let l = 4.0 + 90.0 * t;
-    let c = 58.0 * t.powf(0.8) * (1.0 - 0.5 * t.powi(3));
-    let h = (290.0 + 170.0 * t).to_radians();
+    let l = 6.0 + 90.0 * t;
+    let c = 9.0 + 33.0 * (std::f64::consts::PI * t).sin().max(0.0).powf(0.9);
+    let h = (55.0 - 215.0 * t).to_radians();
     LabD50::new(l, c * h.cos(), c * h.sin())
 }
 
@@ -162,6 +172,69 @@ mod tests {
         }
         assert_eq!(position(0.0), 0.0);
         assert_eq!(position(TOP), 1.0);
+    }
+
+    /// Relative luminance of 8-bit sRGB (IEC 61966-2-1 decoding, Rec. 709
+    /// weights).
+    fn luminance(c: [f64; 3]) -> f64 {
+        let lin = c.map(crate::color::spaces::srgb_to_linear);
+        0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
+    }
+
+    // Property: lightness rises strictly along the scale (the definition
+    // above), and every point lies inside sRGB, so rendering clips nothing.
+    #[test]
+    fn lightness_rises_and_the_scale_fits_srgb() {
+        let mut last = -1.0;
+        for i in 0..=1000 {
+            let lab = lab_at(i as f64 / 1000.0);
+            assert!(lab.l > last, "L* at {i}");
+            last = lab.l;
+            let rgb = crate::color::spaces::lab_d50_to_srgb_unclamped(lab);
+            assert!(rgb.iter().all(|v| (-0.002..=1.002).contains(v)), "{i}: {rgb:?}");
+        }
+    }
+
+    // Property: the rendered scale (the 8-bit colours a map gets) darkens
+    // nowhere as ΔE00 grows: in greyscale, and as readers with each of the
+    // three deficiencies see it (Machado, Oliveira & Fernandes 2009, full
+    // severity, as `check --cvd` simulates).
+    #[test]
+    fn rendered_scale_brightens_in_grey_and_for_cvd_readers() {
+        use crate::color::cvd::{Deficiency, Simulator};
+        let h = HeatScale::new().unwrap();
+        let colours: Vec<[f64; 3]> = (0..=2000)
+            .map(|i| h.color(i as f64 * 0.01).map(|v| f64::from(v) / 255.0))
+            .collect();
+        let mut views: Vec<(String, Vec<f64>)> = vec![("grey".into(), colours.iter().map(|&c| luminance(c)).collect())];
+        for d in [Deficiency::Protan, Deficiency::Deutan, Deficiency::Tritan] {
+            let sim = Simulator::new(d, 1.0).expect("severity 1 is valid");
+            views.push((
+                d.to_string(),
+                colours
+                    .iter()
+                    .map(|&c| {
+                        let lin = sim.linear_srgb(c.map(crate::color::spaces::srgb_to_linear));
+                        0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
+                    })
+                    .collect(),
+            ));
+        }
+        for (name, y) in views {
+            // 8-bit quantisation can hold a step level; it must never fall
+            // by more than one code value's worth of luminance.
+            for k in 1..y.len() {
+                assert!(
+                    y[k] >= y[k - 1] - 0.002,
+                    "{name}: luminance falls at ΔE00 {}",
+                    k as f64 * 0.01
+                );
+            }
+            assert!(
+                y[y.len() - 1] > y[0] + 0.7,
+                "{name}: the scale must span light and dark"
+            );
+        }
     }
 
     #[test]

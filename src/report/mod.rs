@@ -4,6 +4,7 @@
 
 pub mod fit;
 pub mod gamut;
+pub mod html;
 pub mod proof;
 pub mod repair;
 pub mod survival;
