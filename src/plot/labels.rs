@@ -119,14 +119,16 @@ pub fn place(
         .map(|&p| Rect::around(p, MARKER_HALF, MARKER_HALF))
         .collect();
     // Crowded markers first: they have the fewest free places.
-    let crowd = |k: usize| {
-        points[..n]
-            .iter()
-            .filter(|q| (q[0] - points[k][0]).hypot(q[1] - points[k][1]) < 60.0)
-            .count()
-    };
+    let crowd: Vec<usize> = (0..n)
+        .map(|k| {
+            points[..n]
+                .iter()
+                .filter(|q| (q[0] - points[k][0]).hypot(q[1] - points[k][1]) < 60.0)
+                .count()
+        })
+        .collect();
     let mut order: Vec<usize> = (0..n).collect();
-    order.sort_by_key(|&k| (std::cmp::Reverse(crowd(k)), k));
+    order.sort_by_key(|&k| (std::cmp::Reverse(crowd[k]), k));
     let mut taken: Vec<Rect> = Vec::new();
     let mut out = vec![None; n];
     for k in order {

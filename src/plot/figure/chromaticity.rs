@@ -75,12 +75,12 @@ pub(super) fn chromaticity(fig: &Figure) -> String {
     background(&mut svg, &d, &locus);
     axes(&mut svg, &p, d.step, axis_labels(d.uv), "main");
     spectral_locus_lines(&mut svg, &d, &locus);
-    wavelength_ticks(&mut svg, &d);
-    let mut fixed = planckian_locus(&mut svg, &d);
+    let mut fixed = wavelength_ticks(&mut svg, &d);
+    fixed.extend(planckian_locus(&mut svg, &d));
     profile_outlines(&mut svg, &d, fig);
     fixed.extend(white_points(&mut svg, &d));
     collapsed_pairs(&mut svg, &d, fig);
-    let left_off = palette(&mut svg, &d, fig, fixed);
+    let left_off = palette(&mut svg, &d, fig, &fixed);
     legend(&mut svg, fig, legend_x, p.y0 + 10.0);
     title_and_captions(&mut svg, &d, fig, left_off);
     svg.finish()
@@ -173,7 +173,8 @@ fn spectral_locus_lines(svg: &mut Svg, d: &Diagram, locus: &[(f64, [f64; 2])]) {
 }
 
 /// Ticks and labels at [`LABELLED_NM`] on the locus, pointing away from white.
-fn wavelength_ticks(svg: &mut Svg, d: &Diagram) {
+fn wavelength_ticks(svg: &mut Svg, d: &Diagram) -> Vec<Rect> {
+    let mut rects = Vec::new();
     svg.open(
         "g",
         &[
@@ -208,8 +209,10 @@ fn wavelength_ticks(svg: &mut Svg, d: &Diagram) {
             &t.label,
         );
         svg.close();
+        rects.push(t.rect);
     }
     svg.close();
+    rects
 }
 
 /// One wavelength's tick and label.
@@ -449,7 +452,7 @@ fn collapsed_pairs(svg: &mut Svg, d: &Diagram, fig: &Figure) {
 }
 
 /// Each palette colour with its arrow from screen to print, and its name.
-fn palette(svg: &mut Svg, d: &Diagram, fig: &Figure, mut fixed: Vec<Rect>) -> usize {
+fn palette(svg: &mut Svg, d: &Diagram, fig: &Figure, fixed: &[Rect]) -> usize {
     let p = &d.panel;
     svg.open("g", &[("id", s("palette"))]);
     let mut named: Vec<([f64; 2], String)> = Vec::new();
@@ -466,8 +469,7 @@ fn palette(svg: &mut Svg, d: &Diagram, fig: &Figure, mut fixed: Vec<Rect>) -> us
         named.push((at, sw.name.clone()));
     }
     svg.close();
-    fixed.extend(wavelength_labels(d).into_iter().map(|t| t.rect));
-    marker_names(svg, p, &named, &fixed)
+    marker_names(svg, p, &named, fixed)
 }
 
 /// Title and the caption lines.

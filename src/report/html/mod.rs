@@ -18,21 +18,9 @@ use std::fmt::Write as _;
 use crate::color::spaces::lab_d50_to_srgb_unclamped;
 use crate::color::LabD50;
 
-/// Text made safe for HTML content and attribute values.
-pub fn escape(s: &str) -> String {
-    let mut o = String::with_capacity(s.len());
-    for c in s.chars() {
-        match c {
-            '&' => o.push_str("&amp;"),
-            '<' => o.push_str("&lt;"),
-            '>' => o.push_str("&gt;"),
-            '"' => o.push_str("&quot;"),
-            '\'' => o.push_str("&#39;"),
-            _ => o.push(c),
-        }
-    }
-    o
-}
+/// Text made safe for HTML content and attribute values: the SVG writer's
+/// escaping, which HTML shares.
+pub use crate::plot::svg::escape;
 
 /// How far (in encoded sRGB, 0..1) a component may lie outside 0..1 before
 /// the colour counts as clipped: half an 8-bit code value, so a colour that
@@ -206,14 +194,6 @@ mod tests {
         assert!(c.clipped, "{c:?}");
         let c = PageColour::of_lab([50.0, 0.0, 0.0]);
         assert!(!c.clipped);
-    }
-
-    #[test]
-    fn escaping_covers_markup_and_quotes() {
-        assert_eq!(
-            escape(r#"<a href="x">'&'</a>"#),
-            "&lt;a href=&quot;x&quot;&gt;&#39;&amp;&#39;&lt;/a&gt;"
-        );
     }
 
     #[test]
