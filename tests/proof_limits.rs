@@ -154,6 +154,37 @@ fn tiff_declaring_huge_dimensions_is_refused_rgb_and_cmyk() {
     assert_refused(&cmyk, &[], &["70000 × 50000", "3500 megapixels", "--max-pixels"]);
 }
 
+#[test]
+fn tiff_field_declaring_more_values_than_the_file_holds_is_refused() {
+    // TIFF 6.0 section 2: an entry's values lie at its offset, `count`
+    // values of its type's size, inside the file. The tiff decoder reserves
+    // room for the declared count (up to 256 MiB) as it opens the file,
+    // before it finds the file too short (a find of the image fuzz target:
+    // 1,485 bytes asking for 256 MiB). Here BitsPerSample (258, SHORT, the
+    // third entry) declares 8,000,000 values in a file of under 200 bytes.
+    let dir = tempfile::tempdir().unwrap();
+    let mut b = tiff_bytes(2, 1, 3, 2, 1, &[10, 20, 30, 40, 50, 60]);
+    let count_at = 8 + 2 + 2 * 12 + 4;
+    assert_eq!(&b[count_at - 4..count_at - 2], &258u16.to_le_bytes());
+    b[count_at..count_at + 4].copy_from_slice(&8_000_000u32.to_le_bytes());
+    for (name, photometric) in [("long-field.tif", 2u8), ("long-field-cmyk.tif", 5)] {
+        let mut b = b.clone();
+        // PhotometricInterpretation (262) is the fifth entry; CMYK takes the
+        // tiff crate's own path.
+        b[8 + 2 + 4 * 12 + 8] = photometric;
+        let img = dir.path().join(name);
+        std::fs::write(&img, &b).unwrap();
+        assert_refused(&img, &[], &["field 258", "8000000 values"]);
+        assert!(matches!(raster::probe(&img), Err(RasterError::Bounds { .. })));
+    }
+    // An image directory with more entries than the file holds.
+    let mut b = tiff_bytes(2, 1, 3, 2, 1, &[10, 20, 30, 40, 50, 60]);
+    b[8..10].copy_from_slice(&5000u16.to_le_bytes());
+    let img = dir.path().join("long-directory.tif");
+    std::fs::write(&img, &b).unwrap();
+    assert_refused(&img, &[], &["5000 entries"]);
+}
+
 /// A real JPEG of `w` × `h` with its frame header (SOF0, ITU T.81 B.2.2)
 /// patched to declare `dw` × `dh`.
 fn jpeg_declaring(w: u32, h: u32, dw: u16, dh: u16) -> Vec<u8> {

@@ -21,6 +21,7 @@ pub(super) fn open_cmyk(path: &Path, limits: &DecodeLimits) -> Result<Option<Tif
     if sniff_file(path)? != Some(FileKind::Tiff) {
         return Ok(None);
     }
+    check_first_ifd(path)?;
     let reader = BufReader::new(File::open(path).map_err(read_err(path))?);
     let mut dec = tiff::decoder::Decoder::new(reader).map_err(tiff_err(path))?;
     let (w, h) = dec.dimensions().map_err(tiff_err(path))?;
@@ -42,6 +43,110 @@ pub(super) fn open_cmyk(path: &Path, limits: &DecodeLimits) -> Result<Option<Tif
         return Ok(None);
     }
     Ok(Some(dec))
+}
+
+/// Bytes per value of a TIFF field type (TIFF 6.0, section 2, types 1–12;
+/// BigTIFF adds LONG8, SLONG8 and IFD8 = 16–18, 8 bytes each); `None` for a
+/// type the decoder does not know (it refuses those).
+fn tiff_type_size(t: u16) -> Option<u64> {
+    Some(match t {
+        1 | 2 | 6 | 7 => 1,
+        3 | 8 => 2,
+        4 | 9 | 11 | 13 => 4,
+        5 | 10 | 12 | 16..=18 => 8,
+        _ => return None,
+    })
+}
+
+/// Refuses a first image directory (IFD) that declares more than the file
+/// holds: entries past its end, or a field whose values, at its declared
+/// count, would run past it. The `tiff` decoder reads this directory as it
+/// opens the file, before any limit of ours applies, and reserves room for
+/// a field's declared count (up to 256 MiB) before it reads a value; a
+/// field the file can hold keeps that within a small multiple of the file's
+/// size. Layout: TIFF 6.0 section 2 (classic: 8-byte header, 12-byte
+/// entries) and the BigTIFF format (16-byte header, 20-byte entries).
+fn check_first_ifd(path: &Path) -> Result<(), RasterError> {
+    let mut f = File::open(path).map_err(read_err(path))?;
+    let len = f.metadata().map_err(read_err(path))?.len();
+    let bounds = |detail: String| RasterError::Bounds {
+        path: path_text(path),
+        detail,
+    };
+    let mut head = [0u8; 16];
+    let got = read_up_to(&mut f, &mut head).map_err(read_err(path))?;
+    if got < 8 {
+        return Ok(()); // The decoder reports the truncation.
+    }
+    let le = &head[0..2] == b"II";
+    let u16_at = |b: &[u8]| {
+        if le {
+            u16::from_le_bytes([b[0], b[1]])
+        } else {
+            u16::from_be_bytes([b[0], b[1]])
+        }
+    };
+    let u32_at = |b: &[u8]| {
+        let a = [b[0], b[1], b[2], b[3]];
+        u64::from(if le {
+            u32::from_le_bytes(a)
+        } else {
+            u32::from_be_bytes(a)
+        })
+    };
+    let u64_at = |b: &[u8]| {
+        let a: [u8; 8] = b[..8].try_into().unwrap_or([0; 8]);
+        if le {
+            u64::from_le_bytes(a)
+        } else {
+            u64::from_be_bytes(a)
+        }
+    };
+    let big = match u16_at(&head[2..4]) {
+        42 => false,
+        43 if got == 16 => true,
+        _ => return Ok(()),
+    };
+    let (ifd, count_len, entry_len, inline) = if big {
+        (u64_at(&head[8..16]), 8u64, 20u64, 8u64)
+    } else {
+        (u32_at(&head[4..8]), 2, 12, 4)
+    };
+    let mut buf = [0u8; 8];
+    f.seek(SeekFrom::Start(ifd)).map_err(read_err(path))?;
+    if read_up_to(&mut f, &mut buf[..count_len as usize]).map_err(read_err(path))? < count_len as usize {
+        return Ok(());
+    }
+    let entries = if big { u64_at(&buf) } else { u64::from(u16_at(&buf)) };
+    let end = entries
+        .checked_mul(entry_len)
+        .and_then(|n| n.checked_add(ifd + count_len))
+        .unwrap_or(u64::MAX);
+    if end > len {
+        return Err(bounds(format!(
+            "its first image directory declares {entries} entries, more than the file's {len} bytes hold"
+        )));
+    }
+    let mut e = [0u8; 20];
+    for _ in 0..entries {
+        f.read_exact(&mut e[..entry_len as usize]).map_err(read_err(path))?;
+        let tag = u16_at(&e[0..2]);
+        let Some(size) = tiff_type_size(u16_at(&e[2..4])) else {
+            continue;
+        };
+        let (count, at) = if big {
+            (u64_at(&e[4..12]), u64_at(&e[12..20]))
+        } else {
+            (u32_at(&e[4..8]), u32_at(&e[8..12]))
+        };
+        let bytes = count.saturating_mul(size);
+        if bytes > inline && at.saturating_add(bytes) > len {
+            return Err(bounds(format!(
+                "its TIFF field {tag} declares {count} values ({bytes} bytes), more than the file's {len} bytes hold"
+            )));
+        }
+    }
+    Ok(())
 }
 
 /// Each JPEG stream of a JPEG-compressed TIFF must declare no more than its

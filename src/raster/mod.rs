@@ -44,9 +44,11 @@ use image::{ColorType, ExtendedColorType, ImageDecoder, ImageEncoder};
 
 mod cmyk_tiff;
 mod encode;
+mod preview;
 
 use cmyk_tiff::{cmyk_info, open_cmyk, read_cmyk};
 pub use encode::{encode, RgbImage};
+pub use preview::{preview_brightest, preview_mean};
 
 /// Bytes a decoder may hold besides the pixels of the image (profiles, text,
 /// line buffers): 64 MiB, the PNG decoder's own default, far above the
@@ -335,16 +337,22 @@ fn zeroed(path: &Path, len: usize) -> Result<Vec<u8>, RasterError> {
     Ok(v)
 }
 
-fn sniff_file(path: &Path) -> Result<Option<FileKind>, RasterError> {
-    let mut head = [0u8; 8];
-    let mut f = File::open(path).map_err(read_err(path))?;
+/// Reads until `buf` is full or the file ends; the bytes read.
+fn read_up_to(f: &mut File, buf: &mut [u8]) -> std::io::Result<usize> {
     let mut n = 0;
-    while n < head.len() {
-        match f.read(&mut head[n..]).map_err(read_err(path))? {
+    while n < buf.len() {
+        match f.read(&mut buf[n..])? {
             0 => break,
             k => n += k,
         }
     }
+    Ok(n)
+}
+
+fn sniff_file(path: &Path) -> Result<Option<FileKind>, RasterError> {
+    let mut head = [0u8; 8];
+    let mut f = File::open(path).map_err(read_err(path))?;
+    let n = read_up_to(&mut f, &mut head).map_err(read_err(path))?;
     Ok(if n < 4 { None } else { FileKind::sniff(&head[..n]) })
 }
 
