@@ -15,7 +15,7 @@
 //!                         analyses: check, separation, order, survival, repair, rewriting
 //! proof                   soft proofs of images: exact model, ΔE00 table, statistics
 //! plot                    SVG figures: loci, outlines, sections, layout per kind
-//! report                  text tables and JSON for every result struct
+//! report                  text tables, JSON and self-contained HTML pages for every result struct
 //! io                      the output guard: atomic, all-or-nothing writes, never over an input
 //! cli                     (feature `cli`) the command line over all of the above
 //! ```

@@ -194,6 +194,12 @@ fn hex(s: &str) -> [u8; 3] {
 }
 
 fn open_page(exe: &Path, page: &Path, shot_name: &str) -> Shown {
+    open_page_with(exe, page, shot_name, "null").0
+}
+
+/// [`open_page`], also evaluating `probe` (a JavaScript expression) on the
+/// loaded page and returning its value.
+fn open_page_with(exe: &Path, page: &Path, shot_name: &str, probe: &str) -> (Shown, Value) {
     let width = 1280;
     let mut b = Browser::launch(exe, width);
     b.page(
@@ -204,6 +210,7 @@ fn open_page(exe: &Path, page: &Path, shot_name: &str) -> Shown {
     b.page("Page.navigate", json!({"url": url}));
     b.wait_for("Page.loadEventFired");
     let text = b.eval("document.body.innerText").as_str().unwrap().to_string();
+    let probed = b.eval(probe);
     let patches = b.eval(
         "JSON.stringify([...document.querySelectorAll('.patch')].map(e => { const r = e.getBoundingClientRect(); \
          return {role: e.dataset.role, rgb: e.dataset.rgb, x: r.x + r.width / 2 + window.scrollX, \
@@ -226,7 +233,7 @@ fn open_page(exe: &Path, page: &Path, shot_name: &str) -> Shown {
         std::fs::write(Path::new(&dir).join(shot_name), &png).unwrap();
     }
     let shot = image::load_from_memory(&png).unwrap().to_rgb8();
-    Shown {
+    let shown = Shown {
         text,
         patches: patches
             .iter()
@@ -239,7 +246,8 @@ fn open_page(exe: &Path, page: &Path, shot_name: &str) -> Shown {
             .collect(),
         shot,
         events: std::mem::take(&mut b.events),
-    }
+    };
+    (shown, probed)
 }
 
 /// No console error, no uncaught exception, no error in the log, and no
@@ -256,8 +264,12 @@ fn assert_quiet(s: &Shown, page: &Path) {
                 assert!(e["params"]["entry"]["level"] != "error", "log error: {}", e["params"]);
             }
             "Network.requestWillBeSent" => {
+                // The page file itself, and the pictures it holds as data.
                 let url = e["params"]["request"]["url"].as_str().unwrap_or("");
-                assert!(url == own, "a network request beyond the page: {url}");
+                assert!(
+                    url == own || url.starts_with("data:"),
+                    "a network request beyond the page: {url}"
+                );
             }
             _ => {}
         }
@@ -391,5 +403,125 @@ fn check_page_in_a_browser() {
             .max()
             .unwrap();
         assert!(off <= 2, "{name}: data-rgb {:?} against {want:?}", p.rgb);
+    }
+}
+
+#[test]
+fn gamut_page_in_a_browser() {
+    let Some(exe) = chromium() else { return };
+    let dir = tempfile::tempdir().unwrap();
+    let page = dir.path().join("gamut.html");
+    let out = Command::new(bin())
+        .args(["gamut", "srgb", "offset-coated", "--json", "--html"])
+        .arg(&page)
+        .output()
+        .unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let report: Value = serde_json::from_slice(&out.stdout).unwrap();
+    let (shown, figures) = open_page_with(
+        &exe,
+        &page,
+        "gamut.png",
+        "document.querySelectorAll('figure svg[role=img][aria-label]').length",
+    );
+    assert_quiet(&shown, &page);
+    assert_eq!(figures, json!(1), "the slices figure, labelled");
+    assert!(shown.text.contains("not a contract proof"), "the caution is missing");
+    for c in report["coverage"].as_array().unwrap() {
+        // The share as the JSON gives it, in the page's words.
+        let share = format!("{:.1} %", c["a_inside_b"].as_f64().unwrap() * 100.0);
+        let (a, b) = (c["a"].as_str().unwrap(), c["b"].as_str().unwrap());
+        assert!(
+            shown.text.contains(&format!("{b} holds {share} of {a}")),
+            "coverage of {a} in {b} ({share}) is not on the page"
+        );
+    }
+    // Each sector's most chromatic colour, from the JSON's C*, L* and hue,
+    // is shown as a flat patch of its sRGB value (computed here from the
+    // standards, not by inkfit).
+    let sectors: Vec<&Patch> = shown.patches.iter().filter(|p| p.role == "sector").collect();
+    let profiles = report["profiles"].as_array().unwrap();
+    let rows = profiles[0]["hue_sectors"].as_array().unwrap().len();
+    assert_eq!(sectors.len(), rows * profiles.len());
+    for (k, p) in sectors.iter().enumerate() {
+        let g = &profiles[k % profiles.len()];
+        let s = &g["hue_sectors"][k / profiles.len()];
+        let (c, l, h) = (
+            s["max_chroma"].as_f64().unwrap(),
+            s["l_at_max"].as_f64().unwrap(),
+            s["h_at_max"].as_f64().unwrap().to_radians(),
+        );
+        let want = srgb_of_lab([l, c * h.cos(), c * h.sin()]);
+        assert_flat(
+            &shown,
+            p,
+            want,
+            3,
+            &format!("{} sector {}", g["name"], k / profiles.len()),
+        );
+    }
+}
+
+#[test]
+fn proof_page_in_a_browser() {
+    let Some(exe) = chromium() else { return };
+    let dir = tempfile::tempdir().unwrap();
+    let page = dir.path().join("proof.html");
+    let (proof, map) = (dir.path().join("proof.png"), dir.path().join("map.png"));
+    let input = Path::new("fixtures/demo/landuse-map.png");
+    let out = Command::new(bin())
+        .arg("proof")
+        .arg(input)
+        .arg("--out")
+        .arg(&proof)
+        .arg("--delta-map")
+        .arg(&map)
+        .arg("--json")
+        .arg("--html")
+        .arg(&page)
+        .output()
+        .unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let report: Value = serde_json::from_slice(&out.stdout).unwrap();
+    // Every picture's pixels as the browser decoded them (through a canvas),
+    // by role.
+    let probe = "JSON.stringify([...document.querySelectorAll('img[data-role]')].map(i => { \
+        const c = document.createElement('canvas'); c.width = i.naturalWidth; c.height = i.naturalHeight; \
+        const g = c.getContext('2d'); g.drawImage(i, 0, 0); \
+        return {role: i.dataset.role, alt: i.alt, w: i.naturalWidth, h: i.naturalHeight, \
+                px: Array.from(g.getImageData(0, 0, c.width, c.height).data)}; }))";
+    let (shown, pictures) = open_page_with(&exe, &page, "proof.png", probe);
+    assert_quiet(&shown, &page);
+    assert!(shown.text.contains("not a contract proof"), "the caution is missing");
+    let img = &report["images"][0];
+    let p95 = format!("{:.2}", img["stats"]["p95"].as_f64().unwrap());
+    assert!(shown.text.contains(&p95), "p95 {p95} is not on the page");
+    let pictures: Vec<Value> = serde_json::from_str(pictures.as_str().unwrap()).unwrap();
+    let roles: Vec<&str> = pictures.iter().map(|p| p["role"].as_str().unwrap()).collect();
+    assert_eq!(roles, ["screen", "proof", "delta"]);
+    // The demo map (480 × 360) is smaller than a picture's longest side, so
+    // each picture must show its file pixel for pixel: the input, the proof
+    // file and the ΔE00 map file, decoded here by the image crate. sRGB PNG
+    // into an sRGB canvas: within 1 code value.
+    for (p, file) in pictures.iter().zip([input, &proof, &map]) {
+        let want = image::open(file).unwrap().to_rgb8();
+        let role = p["role"].as_str().unwrap();
+        assert!(!p["alt"].as_str().unwrap().is_empty(), "{role}: no alt text");
+        assert_eq!(
+            (p["w"].as_u64().unwrap(), p["h"].as_u64().unwrap()),
+            (u64::from(want.width()), u64::from(want.height())),
+            "{role}: picture size"
+        );
+        let px = p["px"].as_array().unwrap();
+        for (k, w) in want.pixels().enumerate() {
+            for c in 0..3 {
+                let got = px[4 * k + c].as_i64().unwrap();
+                assert!(
+                    (got - i64::from(w.0[c])).abs() <= 1,
+                    "{role}: pixel {k} channel {c} is {got}, the file has {}",
+                    w.0[c]
+                );
+            }
+        }
     }
 }

@@ -543,3 +543,90 @@ fn a_press_colour_over_the_ink_limit_is_as_far_outside_as_its_printed_colour() {
         "outside_by {d}, its printed CIELAB {expected}"
     );
 }
+
+/// Every figure and page a command writes is named on stderr, after it is in
+/// place; a page must end in .html.
+#[test]
+fn figures_and_pages_say_what_they_wrote() {
+    let dir = tempfile::tempdir().unwrap();
+    let p = |n: &str| dir.path().join(n).display().to_string();
+    // (arguments, [(path, what the message calls it)])
+    type Case<'a> = (Vec<String>, Vec<(String, &'a str)>);
+    let cases: Vec<Case> = vec![
+        (
+            vec![
+                "check".into(),
+                demo("landuse.csv"),
+                "--svg".into(),
+                p("c.svg"),
+                "--html".into(),
+                p("c.html"),
+            ],
+            vec![(p("c.svg"), "the xy figure"), (p("c.html"), "the check page")],
+        ),
+        (
+            vec![
+                "gamut".into(),
+                "srgb".into(),
+                "--svg".into(),
+                p("g.svg"),
+                "--html".into(),
+                p("g.html"),
+            ],
+            vec![(p("g.svg"), "the a*b* slices"), (p("g.html"), "the gamut page")],
+        ),
+        (
+            vec![
+                "plot".into(),
+                "uv".into(),
+                "--profile".into(),
+                "srgb".into(),
+                "--out".into(),
+                p("u.svg"),
+            ],
+            vec![(p("u.svg"), "the uv figure")],
+        ),
+        (
+            vec![
+                "proof".into(),
+                demo("landuse-map.png"),
+                "--out".into(),
+                p("m.proof.png"),
+                "--html".into(),
+                p("m.html"),
+            ],
+            vec![(p("m.html"), "the proof page")],
+        ),
+    ];
+    for (args, wrote) in cases {
+        let args: Vec<&str> = args.iter().map(String::as_str).collect();
+        let o = run(&args);
+        assert_eq!(o.status.code(), Some(0), "{args:?}: {}", stderr(&o));
+        for (path, what) in wrote {
+            let line = format!("inkfit: wrote {path} ({what})");
+            assert!(
+                stderr(&o).contains(&line),
+                "{args:?}: no line {line:?} in {}",
+                stderr(&o)
+            );
+            let text = std::fs::read_to_string(&path).unwrap();
+            if path.ends_with(".html") {
+                assert!(text.starts_with("<!DOCTYPE html>"), "{path}");
+            } else {
+                assert!(text.contains("<svg"), "{path}");
+            }
+        }
+    }
+    // A page name that is not .html is refused before any work, and nothing is written.
+    for args in [
+        vec!["gamut", "srgb", "--html"],
+        vec!["check", "fixtures/demo/landuse.csv", "--html"],
+    ] {
+        let mut args = args.clone();
+        let bad = p("page.svg");
+        args.push(&bad);
+        let o = run(&args);
+        assert_error(&o, &["--html", "page.svg", ".html"]);
+        assert!(!Path::new(&bad).exists());
+    }
+}

@@ -95,7 +95,7 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
         super::plot::check_svg_path(p)?;
     }
     if let Some(p) = &a.html {
-        check_html_path(p)?;
+        super::check_html_path(p)?;
     }
     if !(a.min_class_share.is_finite() && a.min_class_share > 0.0 && a.min_class_share <= 100.0) {
         return Err(format!(
@@ -213,21 +213,6 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
         super::said_wrote(p, what);
     }
     super::repair::finish_check(&r, &s, a.json, a.strict, use_color(), out)
-}
-
-/// An HTML page's path must end in .html or .htm: a slip of the option
-/// order must not turn a palette or figure name into a page.
-fn check_html_path(p: &std::path::Path) -> Result<(), Error> {
-    let ok = p.extension().is_some_and(|e| {
-        ["html", "htm"]
-            .iter()
-            .any(|x| e.to_string_lossy().eq_ignore_ascii_case(x))
-    });
-    if ok {
-        Ok(())
-    } else {
-        Err(format!("--html '{}': give a file ending in .html", p.display()).into())
-    }
 }
 
 pub(super) fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {

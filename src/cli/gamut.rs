@@ -30,6 +30,9 @@ pub struct GamutArgs {
     /// Also write a*b* slices of every gamut at L* 25, 50 and 75 as SVG.
     #[arg(long, value_name = "FILE.svg")]
     pub svg: Option<PathBuf>,
+    /// Also write one self-contained HTML page: volumes, coverage, the slices and the most chromatic colour per hue.
+    #[arg(long, value_name = "FILE.html")]
+    pub html: Option<PathBuf>,
 }
 
 /// Voxel edge of the shared coverage grid, CIELAB units.
@@ -62,6 +65,9 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     if let Some(p) = &a.svg {
         super::plot::check_svg_path(p)?;
     }
+    if let Some(p) = &a.html {
+        super::check_html_path(p)?;
+    }
     let format = match &a.mesh {
         Some(p) => Some(
             MeshFormat::from_path(p)
@@ -81,7 +87,7 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             outputs.claim(&mesh_path(base, k, profiles.len()))?;
         }
     }
-    if let Some(p) = &a.svg {
+    for p in [&a.svg, &a.html].into_iter().flatten() {
         outputs.claim(p)?;
     }
     let opts = GamutOptions {
@@ -107,11 +113,29 @@ pub fn run_gamut(a: GamutArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
             });
         }
     }
-    if let Some(p) = &a.svg {
-        super::plot::stage_figure(&mut outputs, p, &super::plot::gamut_figure(&profiles, &gamuts)?)?;
+    let r = GamutReport::new(&gamuts, coverage, meshes);
+    let mut wrote = Vec::new();
+    if a.svg.is_some() || a.html.is_some() {
+        let fig = super::plot::gamut_figure(&profiles, &gamuts)?;
+        let svg = crate::plot::render(&fig);
+        if let Some(p) = &a.svg {
+            outputs.stage_bytes(p, svg.as_bytes())?;
+            wrote.push((p, "the a*b* slices"));
+        }
+        if let Some(p) = &a.html {
+            let page = crate::report::html::gamut::render(&crate::report::html::gamut::GamutPage {
+                report: &r,
+                figure: &svg,
+                slices: &fig.lightness,
+            });
+            outputs.stage_bytes(p, page.as_bytes())?;
+            wrote.push((p, "the gamut page"));
+        }
     }
     outputs.commit()?;
-    let r = GamutReport::new(&gamuts, coverage, meshes);
+    for (p, what) in wrote {
+        super::said_wrote(p, what);
+    }
     if a.json {
         crate::report::write_json(out, &r)?;
     } else {

@@ -319,3 +319,18 @@ pub fn error_chain(e: &(dyn std::error::Error + 'static)) -> String {
 pub(super) fn said_wrote(path: &std::path::Path, what: &str) {
     eprintln!("inkfit: wrote {} ({what})", path.display());
 }
+
+/// An HTML page's path must end in .html or .htm: a slip of the option
+/// order must not turn a palette or figure name into a page.
+pub(super) fn check_html_path(p: &std::path::Path) -> Result<(), Error> {
+    let ok = p.extension().is_some_and(|e| {
+        ["html", "htm"]
+            .iter()
+            .any(|x| e.to_string_lossy().eq_ignore_ascii_case(x))
+    });
+    if ok {
+        Ok(())
+    } else {
+        Err(format!("--html '{}': give a file ending in .html", p.display()).into())
+    }
+}

@@ -98,13 +98,6 @@ pub fn layers(
     Ok(out)
 }
 
-/// Stages `fig` as SVG at `path`, to be put in place by `outputs.commit()`.
-pub fn stage_figure(outputs: &mut Outputs, path: &Path, fig: &Figure) -> Result<(), Error> {
-    let text = plot::render(fig);
-    outputs.stage_bytes(path, text.as_bytes())?;
-    Ok(())
-}
-
 /// Runs `plot`: checks every option and input, then draws and writes the figure.
 pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
     // The plan: every option and input checked before any work.
@@ -181,8 +174,9 @@ pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
             .map(|p| mapping_words(mapping, &p.name)),
         collapsed: Vec::new(),
     };
-    stage_figure(&mut outputs, &a.out, &fig)?;
+    outputs.stage_bytes(&a.out, plot::render(&fig).as_bytes())?;
     outputs.commit()?;
+    super::said_wrote(&a.out, &format!("the {} figure", a.kind));
     Ok(Outcome::Done)
 }
 

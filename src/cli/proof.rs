@@ -35,6 +35,7 @@ use crate::proof::heat::HeatScale;
 use crate::proof::result::{Channels, ImageReport, ProfileSource, ProofReport};
 use crate::proof::{check_embedded, Method, ProofEngine};
 use crate::raster::{self, DecodeLimits, FileKind, Raster, RasterError, RasterInfo, RgbImage};
+use crate::report::html::proof::{picture_side, ImagePictures, ProofPage, MAX_PAGE_PICTURES};
 use crate::swatch::check::DEFAULT_TOLERANCE;
 
 #[derive(Args, Debug)]
@@ -63,6 +64,10 @@ pub struct ProofArgs {
     /// or, for one image, a .png file.
     #[arg(long, value_name = "FILE|DIR")]
     pub delta_map: Option<PathBuf>,
+    /// Also write one self-contained HTML page: each image as on screen, its soft proof and its
+    /// ΔE00 map with the scale (small copies), and the statistics.
+    #[arg(long, value_name = "FILE.html")]
+    pub html: Option<PathBuf>,
     /// Write JSON instead of a table.
     #[arg(long)]
     pub json: bool,
@@ -191,8 +196,8 @@ struct Plan {
 /// together) and the report.
 pub fn run_proof(a: ProofArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
     let plan = plan(&a)?;
-    let (plan, images) = work(&a, plan)?;
-    write_report(&a, &plan, images, out)
+    let done = work(&a, plan)?;
+    write_report(&a, done, out)
 }
 
 fn plan(a: &ProofArgs) -> Result<Plan, Error> {
@@ -210,11 +215,17 @@ fn plan(a: &ProofArgs) -> Result<Plan, Error> {
         bpc: !a.no_bpc,
         paper_white: a.paper_white,
     };
+    if let Some(p) = &a.html {
+        super::check_html_path(p)?;
+    }
     let inputs = expand_inputs(&a.images)?;
     let targets = targets(a, inputs.len())?;
     let mut outputs = super::guarded_outputs(&[], &[&screen, &press]);
     for input in &inputs {
         outputs.input(input);
+    }
+    if let Some(p) = &a.html {
+        outputs.claim(p)?;
     }
     let mut plan = Plan {
         screen,
@@ -231,7 +242,7 @@ fn plan(a: &ProofArgs) -> Result<Plan, Error> {
         let job = plan_job(input, &targets, &mut plan, &mut engine_of)?;
         plan.jobs.push(job);
     }
-    if targets.map.is_some() {
+    if targets.map.is_some() || a.html.is_some() {
         plan.heat = Some(HeatScale::new()?);
     }
     Ok(plan)
@@ -353,9 +364,18 @@ fn plan_job(
     })
 }
 
-/// The work, in parallel: outputs are staged while images are proofed and
-/// put in place together only when every image succeeded.
-fn work(a: &ProofArgs, mut plan: Plan) -> Result<(Plan, Vec<ImageReport>), Error> {
+/// What the work leaves: the plan, every image's report and pictures (for
+/// the page), and the outputs staged so far, not yet in place.
+struct Done {
+    plan: Plan,
+    images: Vec<ImageReport>,
+    pictures: Vec<Option<ImagePictures>>,
+    outputs: Outputs,
+}
+
+/// The work, in parallel: outputs are staged while images are proofed; they
+/// are put in place together, with the page, only when every image succeeded.
+fn work(a: &ProofArgs, mut plan: Plan) -> Result<Done, Error> {
     let bar = if a.quiet || a.json || !std::io::stderr().is_terminal() {
         indicatif::ProgressBar::hidden()
     } else {
@@ -368,13 +388,19 @@ fn work(a: &ProofArgs, mut plan: Plan) -> Result<(Plan, Vec<ImageReport>), Error
         screen_icc: &plan.screen.bytes,
         tolerance: a.tolerance,
         limits: plan.limits,
+        picture_side: a.html.as_ref().map(|_| picture_side(plan.jobs.len())),
         outputs: Mutex::new(outputs),
     };
-    let images = proof_all(&plan.jobs, &ctx, &bar);
+    let done = proof_all(&plan.jobs, &ctx, &bar);
     bar.finish_and_clear();
-    let images = images?;
-    ctx.outputs.into_inner().unwrap_or_else(|e| e.into_inner()).commit()?;
-    Ok((plan, images))
+    let (images, pictures) = done?.into_iter().unzip();
+    let outputs = ctx.outputs.into_inner().unwrap_or_else(|e| e.into_inner());
+    Ok(Done {
+        plan,
+        images,
+        pictures,
+        outputs,
+    })
 }
 
 /// Notes on what the proofs can and cannot say about these inputs.
@@ -398,8 +424,16 @@ fn notes(plan: &Plan) -> Vec<String> {
     notes
 }
 
-/// The report: table or JSON, and the outcome for `--strict`.
-fn write_report(a: &ProofArgs, plan: &Plan, images: Vec<ImageReport>, out: &mut dyn Write) -> Result<Outcome, Error> {
+/// The report: the page staged and every output put in place, then the
+/// table or JSON, and the outcome for `--strict`.
+fn write_report(a: &ProofArgs, done: Done, out: &mut dyn Write) -> Result<Outcome, Error> {
+    let Done {
+        plan,
+        images,
+        pictures,
+        mut outputs,
+    } = done;
+    let plan = &plan;
     let beyond = images.iter().any(|i| !i.within_tolerance);
     let conditions = Conditions::new(
         &plan.screen,
@@ -411,6 +445,17 @@ fn write_report(a: &ProofArgs, plan: &Plan, images: Vec<ImageReport>, out: &mut 
         notes(plan),
     );
     let r = ProofReport { conditions, images };
+    if let Some(p) = &a.html {
+        let page = crate::report::html::proof::render(&ProofPage {
+            report: &r,
+            pictures: &pictures,
+        });
+        outputs.stage_bytes(p, page.as_bytes())?;
+    }
+    outputs.commit()?;
+    if let Some(p) = &a.html {
+        super::said_wrote(p, "the proof page");
+    }
     if a.json {
         crate::report::write_json(out, &r)?;
     } else {
@@ -443,6 +488,8 @@ struct Work<'a> {
     screen_icc: &'a [u8],
     tolerance: f64,
     limits: DecodeLimits,
+    /// The pictures' longest side when there is a page.
+    picture_side: Option<u32>,
     outputs: Mutex<Outputs>,
 }
 
@@ -454,14 +501,17 @@ impl Work<'_> {
     }
 }
 
+/// One image's report and its pictures for the page.
+type Proofed = (ImageReport, Option<ImagePictures>);
+
 /// What became of a job: `None` when it was not started because another had
 /// failed.
-type JobResult = Option<Result<ImageReport, Error>>;
+type JobResult = Option<Result<Proofed, Error>>;
 
 /// Proofs every job, in parallel within [`WORKING_BUDGET`]; the reports in
 /// job order, or the error of the first job that failed (no new image starts
 /// after a failure).
-fn proof_all(jobs: &[Job], ctx: &Work<'_>, bar: &indicatif::ProgressBar) -> Result<Vec<ImageReport>, Error> {
+fn proof_all(jobs: &[Job], ctx: &Work<'_>, bar: &indicatif::ProgressBar) -> Result<Vec<Proofed>, Error> {
     let budget = Budget::new(WORKING_BUDGET);
     let next = AtomicUsize::new(0);
     let failed = AtomicBool::new(false);
@@ -479,7 +529,8 @@ fn proof_all(jobs: &[Job], ctx: &Work<'_>, bar: &indicatif::ProgressBar) -> Resu
                 let r = if failed.load(Ordering::Relaxed) {
                     None
                 } else {
-                    Some(proof_one(job, ctx))
+                    let side = ctx.picture_side.filter(|_| i < MAX_PAGE_PICTURES);
+                    Some(proof_one(job, ctx, side))
                 };
                 drop(held);
                 if matches!(r, Some(Err(_))) {
@@ -504,8 +555,8 @@ fn proof_all(jobs: &[Job], ctx: &Work<'_>, bar: &indicatif::ProgressBar) -> Resu
 }
 
 /// Reads, proofs, encodes and stages one image; its buffers are dropped as
-/// soon as their part is done.
-fn proof_one(job: &Job, ctx: &Work<'_>) -> Result<ImageReport, Error> {
+/// soon as their part is done. With `side`, small copies for the page too.
+fn proof_one(job: &Job, ctx: &Work<'_>, side: Option<u32>) -> Result<Proofed, Error> {
     let engine = &ctx.engines[job.engine];
     let mut r = raster::read_within(&job.input, &ctx.limits).map_err(with_limit_hint)?;
     if r.info != job.info {
@@ -519,9 +570,31 @@ fn proof_one(job: &Job, ctx: &Work<'_>) -> Result<ImageReport, Error> {
         expand_grey(&mut r);
     }
     let (w, h, bits) = (r.info.width, r.info.height, r.info.bits);
+    // The picture as designed: RGB in its own profile (or the screen's).
+    let screen_picture = match side {
+        Some(side) if r.info.channels == 3 => {
+            let (px, pw, ph) = raster::preview_mean(&r.color, w, h, bits, side);
+            let icc = job.info.icc.as_deref().unwrap_or(ctx.screen_icc);
+            Some(picture_png(&job.input, pw, ph, &px, icc)?)
+        }
+        _ => None,
+    };
     let alpha = r.alpha.take();
     let o = engine.run_owned(std::mem::take(&mut r.color), ctx.heat, Method::Table);
     let stats = o.tally.summary();
+    let mut pictures = None;
+    if let (Some(side), Some(heat), Some(pixels)) = (side, ctx.heat, &o.map) {
+        let (px, pw, ph) = raster::preview_mean(&o.proof, w, h, bits, side);
+        let proof = picture_png(&job.out, pw, ph, &px, ctx.screen_icc)?;
+        let (px, _, _) = raster::preview_brightest(pixels, w, h, side);
+        pictures = Some(ImagePictures {
+            size: (pw, ph),
+            screen: screen_picture,
+            proof,
+            delta: picture_png(&job.out, pw, ph, &px, &heat.srgb_icc)?,
+            legend: heat.legend_svg(&format!("ΔE00 map of {}", file_name(&job.input))),
+        });
+    }
     if let (Some((m, l)), Some(heat), Some(pixels)) = (&job.map, ctx.heat, o.map) {
         let png = raster::encode(
             m,
@@ -556,7 +629,7 @@ fn proof_one(job: &Job, ctx: &Work<'_>) -> Result<ImageReport, Error> {
     drop(o.proof);
     drop(alpha);
     ctx.stage(&job.out, &proof)?;
-    Ok(ImageReport {
+    let report = ImageReport {
         input: job.input.display().to_string(),
         output: job.out.display().to_string(),
         delta_map: job.map.as_ref().map(|(m, _)| m.display().to_string()),
@@ -570,7 +643,20 @@ fn proof_one(job: &Job, ctx: &Work<'_>) -> Result<ImageReport, Error> {
         profile_source: job.source,
         within_tolerance: stats.p95 <= ctx.tolerance,
         stats,
-    })
+    };
+    Ok((report, pictures))
+}
+
+/// A small 8-bit RGB copy as PNG, with its profile.
+fn picture_png(name: &Path, width: u32, height: u32, rgb: &[u8], icc: &[u8]) -> Result<Vec<u8>, Error> {
+    let img = RgbImage {
+        width,
+        height,
+        bits: 8,
+        rgb,
+        alpha: None,
+    };
+    Ok(raster::encode(name, FileKind::Png, &img, icc)?)
 }
 
 fn file_name(p: &Path) -> String {

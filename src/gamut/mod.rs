@@ -189,6 +189,8 @@ pub struct HueSector {
     pub max_chroma: f64,
     /// L* of that colour.
     pub l_at_max: f64,
+    /// Hue angle h_ab of that colour, degrees.
+    pub h_at_max: f64,
 }
 
 /// Width of a hue sector, degrees; 12 sectors of 30°.
@@ -561,23 +563,25 @@ fn rasterise(shape: &Shape, grid: Grid) -> Solid {
 /// Largest C*ab per 30° hue sector over `samples` (CIELAB).
 fn hue_sectors(samples: &[Px3]) -> Vec<HueSector> {
     let count = (360.0 / SECTOR_DEGREES) as usize;
-    let mut best: Vec<Option<(f64, f64)>> = vec![None; count];
+    let mut best: Vec<Option<(f64, f64, f64)>> = vec![None; count];
     for s in samples {
         let lch = LabD50::from_array(*s).to_lch();
         let sector = ((lch.h / SECTOR_DEGREES).floor() as usize).min(count - 1);
-        if best[sector].is_none_or(|(c, _)| lch.c > c) {
-            best[sector] = Some((lch.c, lch.l));
+        if best[sector].is_none_or(|(c, _, _)| lch.c > c) {
+            best[sector] = Some((lch.c, lch.l, lch.h));
         }
     }
     best.into_iter()
         .enumerate()
         .map(|(i, b)| {
-            let (c, l) = b.unwrap_or((0.0, 0.0));
+            let from = i as f64 * SECTOR_DEGREES;
+            let (c, l, h) = b.unwrap_or((0.0, 0.0, from + SECTOR_DEGREES / 2.0));
             HueSector {
-                hue_from: i as f64 * SECTOR_DEGREES,
-                hue_to: (i + 1) as f64 * SECTOR_DEGREES,
+                hue_from: from,
+                hue_to: from + SECTOR_DEGREES,
                 max_chroma: c,
                 l_at_max: l,
+                h_at_max: h,
             }
         })
         .collect()

@@ -75,6 +75,7 @@ impl GamutReport {
                         hue_to: s.hue_to,
                         max_chroma: round(s.max_chroma, 2),
                         l_at_max: round(s.l_at_max, 2),
+                        h_at_max: round(s.h_at_max, 2),
                     })
                     .collect(),
             })

@@ -9,7 +9,7 @@ use crate::gamut::result::GamutReport;
 use crate::gamut::DeviceKind;
 
 /// Thousands separated by commas, no decimals.
-fn grouped(v: f64) -> String {
+pub(crate) fn grouped(v: f64) -> String {
     let n = v.round() as i64;
     let digits = n.unsigned_abs().to_string();
     let mut out = String::new();
@@ -96,25 +96,8 @@ pub fn render(w: &mut dyn Write, r: &GamutReport) -> io::Result<()> {
         }
         t.write(w, false)?;
         writeln!(w)?;
-        for (i, c) in r.coverage.iter().enumerate() {
-            // Each unordered pair once, with its reverse.
-            let reverse = r.coverage.iter().position(|d| d.a == c.b && d.b == c.a);
-            if reverse.is_some_and(|j| j < i) {
-                continue;
-            }
-            match reverse.map(|j| &r.coverage[j]) {
-                Some(d) => writeln!(
-                    w,
-                    "{} holds {} of {}, and {} holds {} of {}.",
-                    c.b,
-                    pct(c.a_inside_b),
-                    c.a,
-                    d.b,
-                    pct(d.a_inside_b),
-                    d.a
-                )?,
-                None => writeln!(w, "{} holds {} of {}.", c.b, pct(c.a_inside_b), c.a)?,
-            }
+        for line in coverage_sentences(r) {
+            writeln!(w, "{line}")?;
         }
     }
     for m in &r.meshes {
@@ -128,6 +111,32 @@ pub fn render(w: &mut dyn Write, r: &GamutReport) -> io::Result<()> {
         writeln!(w, "method: {m}")?;
     }
     Ok(())
+}
+
+/// Each unordered pair's coverage in words, both ways when both were
+/// measured: "B holds x % of A, and A holds y % of B."
+pub(crate) fn coverage_sentences(r: &GamutReport) -> Vec<String> {
+    let mut out = Vec::new();
+    for (i, c) in r.coverage.iter().enumerate() {
+        // Each unordered pair once, with its reverse.
+        let reverse = r.coverage.iter().position(|d| d.a == c.b && d.b == c.a);
+        if reverse.is_some_and(|j| j < i) {
+            continue;
+        }
+        out.push(match reverse.map(|j| &r.coverage[j]) {
+            Some(d) => format!(
+                "{} holds {} of {}, and {} holds {} of {}.",
+                c.b,
+                pct(c.a_inside_b),
+                c.a,
+                d.b,
+                pct(d.a_inside_b),
+                d.a
+            ),
+            None => format!("{} holds {} of {}.", c.b, pct(c.a_inside_b), c.a),
+        });
+    }
+    out
 }
 
 #[cfg(test)]

@@ -3,7 +3,8 @@
 //!
 //! The page shell and the parts every page shares are here (escaping, the
 //! document, colour patches, the caution); each result has its own module:
-//! [`check`] for `check --html`.
+//! [`check`] for `check --html`, [`gamut`] for `gamut --html`, [`proof`]
+//! for `proof --html`.
 //!
 //! Colours on the page are CSS sRGB, the colour space a browser assumes for
 //! an untagged colour. A CIELAB colour becomes sRGB by CSS Color 4's
@@ -12,6 +13,8 @@
 //! so a patch never passes for a colour it is not.
 
 pub mod check;
+pub mod gamut;
+pub mod proof;
 
 use std::fmt::Write as _;
 
@@ -115,7 +118,7 @@ table { border-collapse: collapse; margin: .5rem 0; }
 caption { text-align: left; font-weight: 600; padding: .3rem 0; }
 th, td { padding: .25rem .55rem; border-bottom: 1px solid #dddddd; vertical-align: middle; }
 th { text-align: left; background: #f5f5f5; }
-td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; }
+td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 .patch { display: inline-block; width: 32px; height: 32px; border: 1px solid #777777; vertical-align: middle;
   print-color-adjust: exact; -webkit-print-color-adjust: exact; }
 .patches { white-space: nowrap; }
@@ -129,7 +132,14 @@ table.matrix td { text-align: right; font-variant-numeric: tabular-nums; padding
 table.matrix td.flag { background: #fbe3e3; color: #7a0c0c; font-weight: 700; }
 table.matrix td.self, table.matrix td.apart { color: #4a4a4a; text-align: center; }
 table.matrix th .patch, table.strip .patch { width: 24px; height: 24px; }
+.bar { display: inline-block; width: 10rem; height: .8rem; background: #e6e6e6; border: 1px solid #8a8a8a; vertical-align: middle; }
+.bar span { display: block; height: 100%; background: #3d5a80; print-color-adjust: exact; -webkit-print-color-adjust: exact; }
 figure { margin: 1rem 0; }
+.pictures { display: grid; grid-template-columns: repeat(auto-fit, minmax(18rem, 1fr)); gap: 1rem; align-items: start; }
+.picture { margin: 0; }
+.picture img { display: block; width: 100%; height: auto; border: 1px solid #8a8a8a; }
+.picture.none p { border: 1px dashed #8a8a8a; padding: 1rem; color: #4a4a4a; margin: 0; }
+.picture svg { display: block; margin-top: .4rem; max-width: 22rem; }
 figure svg { max-width: 100%; height: auto; }
 figcaption { color: #4a4a4a; font-size: .9rem; }
 footer { margin-top: 3rem; color: #4a4a4a; font-size: .85rem; }
