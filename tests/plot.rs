@@ -680,3 +680,45 @@ fn cli_check_and_gamut_write_their_figures() {
         &["gamut.txt", ".svg"],
     );
 }
+
+#[test]
+fn legends_name_a_profile_file_by_its_description_not_its_path() {
+    // A profile file deep in folders: the legend shows the profile's own
+    // description (its desc tag, as `inspect` prints it), shortened in the
+    // middle, never the path.
+    let dir = tempfile::tempdir().unwrap();
+    let deep = dir.path().join("clients/tarrowmere/atlas-2026/press-profiles");
+    std::fs::create_dir_all(&deep).unwrap();
+    let icc = deep.join("offset-coated-copy.icc");
+    std::fs::copy("profiles/offset-coated.icc", &icc).unwrap();
+    let out = dir.path().join("xy.svg");
+    let o = run(&[
+        "plot",
+        "xy",
+        "--profile",
+        &icc.display().to_string(),
+        "--out",
+        &out.display().to_string(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(&out).unwrap();
+    let desc = stdout(&run(&["inspect", &icc.display().to_string(), "--json"]));
+    let desc: serde_json::Value = serde_json::from_str(&desc).unwrap();
+    let desc = desc["description"]
+        .as_str()
+        .or_else(|| desc[0]["description"].as_str())
+        .unwrap()
+        .to_string();
+    let legend = &svg[svg.find("id=\"legend\"").unwrap()..];
+    let entry = &legend[legend.find("legend-entry").unwrap()..];
+    let first_text = &entry[entry.find("<text").unwrap()..];
+    let shown = &first_text[first_text.find('>').unwrap() + 1..first_text.find("</text>").unwrap()];
+    assert!(!shown.contains("clients/"), "the legend shows the path: {shown}");
+    let label = shown.split(" — ").next().unwrap();
+    assert!(label.chars().count() <= inkfit::plot::LEGEND_LABEL_CHARS, "{label}");
+    let (head, tail) = label.split_once('…').expect("a long description is cut in the middle");
+    assert!(
+        desc.starts_with(head) && desc.ends_with(tail),
+        "{label} is not {desc} shortened"
+    );
+}

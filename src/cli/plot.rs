@@ -61,6 +61,9 @@ pub fn check_svg_path(p: &Path) -> Result<(), PlotError> {
     }
 }
 
+/// Longest press label in a figure's caption, characters.
+const CAPTION_LABEL_CHARS: usize = 48;
+
 /// The mapping in words, for the caption.
 pub fn mapping_words(mapping: PressMapping, press: &str) -> String {
     format!(
@@ -171,7 +174,7 @@ pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
         mapping: press
             .as_ref()
             .filter(|_| palette.is_some())
-            .map(|p| mapping_words(mapping, &p.name)),
+            .map(|p| mapping_words(mapping, &p.legend_label(CAPTION_LABEL_CHARS))),
         collapsed: Vec::new(),
     };
     outputs.stage_bytes(&a.out, plot::render(&fig).as_bytes())?;
@@ -208,7 +211,7 @@ pub fn check_figure(
         swatches: Swatch::from_check(r),
         lightness: Vec::new(),
         hue: plot::DEFAULT_HUE,
-        mapping: Some(mapping_words(mapping, &press.name)),
+        mapping: Some(mapping_words(mapping, &press.legend_label(CAPTION_LABEL_CHARS))),
         collapsed: collapsed.to_vec(),
     })
 }

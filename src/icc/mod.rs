@@ -212,6 +212,23 @@ impl fmt::Debug for IccProfile {
     }
 }
 
+/// `text` shortened to at most `max` characters (at least 3) by an ellipsis
+/// in the middle: the first half and the last half of what fits.
+pub fn middle_ellipsis(text: &str, max: usize) -> String {
+    let chars: Vec<char> = text.chars().collect();
+    let max = max.max(3);
+    if chars.len() <= max {
+        return text.to_string();
+    }
+    let keep = max - 1;
+    let head = keep.div_ceil(2);
+    let tail = keep - head;
+    let mut out: String = chars[..head].iter().collect::<String>().trim_end().to_string();
+    out.push('…');
+    out.push_str(chars[chars.len() - tail..].iter().collect::<String>().trim_start());
+    out
+}
+
 /// Which way a table converts.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Direction {
@@ -279,6 +296,31 @@ impl IccProfile {
     /// How this profile reads to a person: "a display RGB profile" etc.
     pub fn kind_phrase(&self) -> String {
         describe_kind(self.header.class, self.header.color_space)
+    }
+
+    /// The profile's own description text (its `desc` tag), when it has
+    /// one that is not blank; control characters become spaces.
+    pub fn description(&self) -> Option<String> {
+        let d = self.lcms.info(lcms2::InfoType::Description, lcms2::Locale::none())?;
+        let d: String = d.chars().map(|c| if c.is_control() { ' ' } else { c }).collect();
+        let d = d.split_whitespace().collect::<Vec<_>>().join(" ");
+        (!d.is_empty()).then_some(d)
+    }
+
+    /// What a figure's legend calls the profile, at most `max` characters:
+    /// the built-in name; for a file its description, else its file name
+    /// (never the whole path). Longer text keeps its start and end with an
+    /// ellipsis in the middle, where names that share a maker's prefix and
+    /// a version suffix differ least.
+    pub fn legend_label(&self, max: usize) -> String {
+        let text = match &self.origin {
+            Origin::Builtin => self.name.clone(),
+            Origin::File(p) => self.description().unwrap_or_else(|| {
+                p.file_name()
+                    .map_or_else(|| self.name.clone(), |n| n.to_string_lossy().into_owned())
+            }),
+        };
+        middle_ellipsis(&text, max)
     }
 
     /// True when the profile is one of inkfit's built-ins.
@@ -536,4 +578,25 @@ pub fn describe_kind(class: Signature, space: Signature) -> String {
         "a"
     };
     format!("{article} {phrase}")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::middle_ellipsis;
+
+    // Properties: short text is kept; long text fits, keeps its start and
+    // its end, and shows where it was cut.
+    #[test]
+    fn middle_ellipsis_keeps_both_ends() {
+        assert_eq!(middle_ellipsis("srgb", 28), "srgb");
+        let long = "Tarrowmere Basin Press Coated 2026 v3 (measured)";
+        let s = middle_ellipsis(long, 28);
+        assert!(s.chars().count() <= 28, "{s}");
+        assert!(s.starts_with("Tarrowmere Basin"), "{s}");
+        assert!(s.ends_with("(measured)"), "{s}");
+        assert_eq!(s.matches('…').count(), 1, "{s}");
+        // Multi-byte characters are counted as characters, not bytes.
+        let s = middle_ellipsis("ΔΔΔΔΔΔΔΔΔΔΔΔ", 5);
+        assert_eq!(s, "ΔΔ…ΔΔ");
+    }
 }

@@ -137,6 +137,10 @@ pub enum OutlineMethod {
     ProjectedGamut,
 }
 
+/// Longest profile label in a legend, characters: what fits beside the key
+/// with the kind phrase in the legend's width.
+pub const LEGEND_LABEL_CHARS: usize = 28;
+
 /// What a figure draws for one profile.
 #[derive(Clone, Debug)]
 pub struct ProfileLayer {
@@ -258,7 +262,7 @@ pub fn layer_for(
     let need_gamut = || gamut.ok_or_else(|| profile_err(p, "its gamut is needed for this figure"));
     let mut layer = ProfileLayer {
         name: p.name.clone(),
-        words: format!("{} — {}", p.name, p.kind_phrase()),
+        words: format!("{} — {}", p.legend_label(LEGEND_LABEL_CHARS), p.kind_phrase()),
         outline: Vec::new(),
         method: OutlineMethod::Primaries,
         slices: Vec::new(),
