@@ -665,3 +665,64 @@ fn locator_finds_the_nearest_boundary_point_near_neutrals() {
     }
     println!("locator minus brute force, worst: {worst}");
 }
+
+/// A ball of radius `r` about `c`, voxelised on a grid of edge 1: a voxel
+/// is inside when its centre is.
+fn voxel_ball(c: [f64; 3], r: f64) -> inkfit::gamut::grid::Solid {
+    use inkfit::gamut::grid::{Grid, Solid};
+    let grid = Grid::covering([c[0] - r, c[1] - r, c[2] - r], [c[0] + r, c[1] + r, c[2] + r], 1.0).unwrap();
+    let mut cells = vec![0u8; grid.len()];
+    let [nl, na, nb] = grid.dims;
+    for il in 0..nl {
+        for ia in 0..na {
+            for ib in 0..nb {
+                let p = grid.center(il, ia, ib);
+                let d = ((p[0] - c[0]).powi(2) + (p[1] - c[1]).powi(2) + (p[2] - c[2]).powi(2)).sqrt();
+                cells[grid.index(il, ia, ib)] = u8::from(d <= r);
+            }
+        }
+    }
+    Solid { grid, cells }
+}
+
+#[test]
+fn figure_surface_lies_closer_to_the_true_boundary_than_the_voxel_steps() {
+    // A voxelised ball has a known true surface (property: the distance of
+    // a vertex from it is |‖v − c‖ − r|). The plain isosurface puts every
+    // vertex at an edge midpoint, up to half a voxel off: one-unit steps in
+    // a slice. The figure surface must keep every triangle, keep each vertex
+    // on its edge (within half a voxel of the midpoint), and lie closer to
+    // the true sphere: half the RMS error or better.
+    use inkfit::gamut::mesh::{isosurface, smooth_isosurface};
+    let (c, r) = ([50.3, 0.17, -0.41], 17.3);
+    let solid = voxel_ball(c, r);
+    let plain = isosurface(&solid);
+    let smooth = smooth_isosurface(&solid);
+    // The same triangles over the same vertices (winding follows the moved
+    // vertices' normals, so compare each triangle's vertex set).
+    let sets = |m: &inkfit::gamut::mesh::Mesh| -> Vec<[u32; 3]> {
+        m.triangles
+            .iter()
+            .map(|t| {
+                let mut t = *t;
+                t.sort_unstable();
+                t
+            })
+            .collect()
+    };
+    assert!(sets(&plain) == sets(&smooth), "not the same triangles");
+    assert_eq!(plain.vertices.len(), smooth.vertices.len());
+    let off = |v: &[f64; 3]| (((v[0] - c[0]).powi(2) + (v[1] - c[1]).powi(2) + (v[2] - c[2]).powi(2)).sqrt() - r).abs();
+    let rms = |m: &inkfit::gamut::mesh::Mesh| {
+        (m.vertices.iter().map(|v| off(v).powi(2)).sum::<f64>() / m.vertices.len() as f64).sqrt()
+    };
+    for (p, s) in plain.vertices.iter().zip(&smooth.vertices) {
+        let moved = ((p[0] - s[0]).powi(2) + (p[1] - s[1]).powi(2) + (p[2] - s[2]).powi(2)).sqrt();
+        assert!(moved <= 0.5 * 3f64.sqrt() + 1e-9, "a vertex left its edge: {moved}");
+    }
+    let (e_plain, e_smooth) = (rms(&plain), rms(&smooth));
+    assert!(
+        e_smooth <= 0.5 * e_plain,
+        "RMS off the sphere: plain {e_plain:.3}, figure {e_smooth:.3}"
+    );
+}

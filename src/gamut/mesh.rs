@@ -115,6 +115,57 @@ pub fn cube_surface(n: usize) -> (Vec<[f64; 3]>, Vec<[u32; 3]>) {
 /// neighbouring cubes share face for face, so the surface is closed. With 0/1
 /// occupancy the iso-level 0.5 crosses each cut edge at its midpoint.
 pub fn isosurface(solid: &Solid) -> Mesh {
+    isosurface_placed(solid, None)
+}
+
+/// [`isosurface`] with each vertex moved along its cut edge to where a
+/// smoothed occupancy crosses one half, for figures: the 0/1 occupancy puts
+/// every vertex at an edge midpoint, so a gently sloping boundary comes out
+/// as steps of one voxel. The smoothed occupancy at a voxel centre is the
+/// share of inside voxels among its 3 × 3 × 3 neighbourhood, a stand-in for
+/// the signed distance to the boundary within a voxel and a half of it (for
+/// a plane it rises linearly across it). Which edges are cut, and so the
+/// triangles and the closed surface, stay those of [`isosurface`]; only the
+/// vertex positions move, never past their edge.
+pub fn smooth_isosurface(solid: &Solid) -> Mesh {
+    let field = neighbourhood_share(solid);
+    isosurface_placed(solid, Some(&field))
+}
+
+/// The share of inside voxels in each voxel's 3 × 3 × 3 neighbourhood
+/// (voxels outside the grid count as outside), by three passes of a 3-tap
+/// box sum.
+fn neighbourhood_share(solid: &Solid) -> Vec<f32> {
+    let g = &solid.grid;
+    let dims = g.dims;
+    let mut f: Vec<f32> = solid.cells.iter().map(|&c| f32::from(c)).collect();
+    let mut next = vec![0f32; f.len()];
+    for axis in 0..3 {
+        for il in 0..dims[0] {
+            for ia in 0..dims[1] {
+                for ib in 0..dims[2] {
+                    let c = [il, ia, ib];
+                    let mut sum = f[g.index(il, ia, ib)];
+                    if c[axis] > 0 {
+                        let mut d = c;
+                        d[axis] -= 1;
+                        sum += f[g.index(d[0], d[1], d[2])];
+                    }
+                    if c[axis] + 1 < dims[axis] {
+                        let mut d = c;
+                        d[axis] += 1;
+                        sum += f[g.index(d[0], d[1], d[2])];
+                    }
+                    next[g.index(il, ia, ib)] = sum / 3.0;
+                }
+            }
+        }
+        std::mem::swap(&mut f, &mut next);
+    }
+    f
+}
+
+fn isosurface_placed(solid: &Solid, field: Option<&[f32]>) -> Mesh {
     let g = &solid.grid;
     let [nl, na, nb] = g.dims;
     let mut mesh = Mesh::default();
@@ -143,7 +194,7 @@ pub fn isosurface(solid: &Solid) -> Mesh {
                         corner[axis] += 1;
                         tet[k + 1] = corner;
                     }
-                    march_tetrahedron(solid, tet, &mut mesh, &mut edge_vertex);
+                    march_tetrahedron(solid, field, tet, &mut mesh, &mut edge_vertex);
                 }
             }
         }
@@ -153,6 +204,7 @@ pub fn isosurface(solid: &Solid) -> Mesh {
 
 fn march_tetrahedron(
     solid: &Solid,
+    field: Option<&[f32]>,
     tet: [[usize; 3]; 4],
     mesh: &mut Mesh,
     edge_vertex: &mut HashMap<(usize, usize), u32>,
@@ -168,7 +220,26 @@ fn march_tetrahedron(
     let mut vertex = |a: usize, b: usize, mesh: &mut Mesh| -> u32 {
         let key = (idx[a].min(idx[b]), idx[a].max(idx[b]));
         *edge_vertex.entry(key).or_insert_with(|| {
-            mesh.vertices.push([0, 1, 2].map(|d| 0.5 * (pos[a][d] + pos[b][d])));
+            // Where the field crosses one half between the two ends (one
+            // in, one out); the midpoint without a field, or when the
+            // smoothed field does not fall from the inside end to the
+            // outside one.
+            let t = field.and_then(|f| {
+                let (fa, fb) = (f64::from(f[idx[a]]), f64::from(f[idx[b]]));
+                let (fin, fout, from_a) = if inside[a] { (fa, fb, true) } else { (fb, fa, false) };
+                (fin > fout).then(|| {
+                    let s = ((fin - 0.5) / (fin - fout)).clamp(0.0, 1.0);
+                    if from_a {
+                        s
+                    } else {
+                        1.0 - s
+                    }
+                })
+            });
+            mesh.vertices.push(match t {
+                Some(t) => [0, 1, 2].map(|d| pos[a][d] + t * (pos[b][d] - pos[a][d])),
+                None => [0, 1, 2].map(|d| 0.5 * (pos[a][d] + pos[b][d])),
+            });
             (mesh.vertices.len() - 1) as u32
         })
     };

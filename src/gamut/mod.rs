@@ -445,6 +445,17 @@ impl Gamut {
         self.locator.mesh()
     }
 
+    /// The boundary as figures draw it: the RGB surface itself; for CMYK
+    /// the voxel solid's surface with its vertices placed within their
+    /// voxels ([`mesh::smooth_isosurface`]), so that slices and leaves show
+    /// no one-unit steps. The inside test and distances keep [`Self::boundary`].
+    pub fn figure_boundary(&self) -> std::borrow::Cow<'_, Mesh> {
+        match self.kind {
+            DeviceKind::Rgb => std::borrow::Cow::Borrowed(self.boundary()),
+            DeviceKind::Cmyk => std::borrow::Cow::Owned(mesh::smooth_isosurface(&self.solid)),
+        }
+    }
+
     /// The voxel solid behind the inside test.
     pub fn solid(&self) -> &Solid {
         &self.solid

@@ -285,14 +285,15 @@ pub fn layer_for(
             }
         }
         PlotKind::Ab => {
-            let m = need_gamut()?.boundary();
+            let m = need_gamut()?.figure_boundary();
+            let m = &*m;
             layer.slices = lightness
                 .iter()
                 .map(|&l| (l, geometry::lightness_slice(m, l)))
                 .collect();
         }
         PlotKind::Leaf => {
-            layer.leaf = geometry::hue_leaf(need_gamut()?.boundary(), hue);
+            layer.leaf = geometry::hue_leaf(&need_gamut()?.figure_boundary(), hue);
         }
     }
     Ok(layer)
