@@ -494,33 +494,87 @@ fn the_demo_map_finds_the_atlas_classes() {
     assert!((shares + v["unclassified_share"].as_f64().unwrap() - 1.0).abs() < 1e-3);
 }
 
-#[test]
-fn an_embedded_profile_is_named_in_the_notes() {
-    // The class colours are the screen profile's RGB; a map that embeds a
-    // profile of its own says so rather than pass silently.
-    let dir = tempfile::tempdir().unwrap();
-    let png = dir.path().join("tagged.png");
-    let img = paint(20, 10, |x, _| if x < 10 { A } else { B });
+fn tagged_png(path: &Path, w: u32, h: u32, data: &[u8], icc: Vec<u8>) {
     let mut bytes = Vec::new();
     let mut enc = PngEncoder::new(&mut bytes);
-    enc.set_icc_profile(inkfit::icc::builtin::bytes("srgb").unwrap().unwrap().to_vec())
-        .unwrap();
-    enc.write_image(&img, 20, 10, ExtendedColorType::Rgb8).unwrap();
-    std::fs::write(&png, bytes).unwrap();
-    let v = json(&run(&["check", png.to_str().unwrap(), "--json"]));
-    let notes: Vec<&str> = v["notes"]
+    enc.set_icc_profile(icc).unwrap();
+    enc.write_image(data, w, h, ExtendedColorType::Rgb8).unwrap();
+    std::fs::write(path, bytes).unwrap();
+}
+
+fn screen_labs(v: &serde_json::Value) -> Vec<[f64; 3]> {
+    v["entries"]
         .as_array()
         .unwrap()
         .iter()
-        .map(|n| n.as_str().unwrap())
-        .collect();
-    assert!(
-        notes.iter().any(|n| n.contains("tagged.png embeds an ICC profile")),
-        "{notes:?}"
-    );
-    // Without one, no such note.
-    let plain = dir.path().join("plain.png");
+        .map(|e| {
+            let l: Vec<f64> = e["screen_lab"]
+                .as_array()
+                .unwrap()
+                .iter()
+                .map(|x| x.as_f64().unwrap())
+                .collect();
+            [l[0], l[1], l[2]]
+        })
+        .collect()
+}
+
+#[test]
+fn a_map_that_embeds_a_profile_is_read_in_that_profile() {
+    // A map image made in a profile of its own holds that profile's RGB:
+    // its class colours are converted from it, whatever --screen says.
+    let dir = tempfile::tempdir().unwrap();
+    let img = paint(20, 10, |x, _| if x < 10 { A } else { B });
+    let builtin = |n: &str| inkfit::icc::builtin::bytes(n).unwrap().unwrap().to_vec();
+    // Property: tagged sRGB reads as the untagged map does on the sRGB
+    // screen, and the note says which profile was used.
+    let (tagged, plain) = (dir.path().join("tagged.png"), dir.path().join("plain.png"));
+    tagged_png(&tagged, 20, 10, &img, builtin("srgb"));
     write_png(&plain, 20, 10, &img, ExtendedColorType::Rgb8);
-    let v = json(&run(&["check", plain.to_str().unwrap(), "--json"]));
-    assert!(!v["notes"].to_string().contains("embeds an ICC profile"));
+    let t = json(&run(&["check", tagged.to_str().unwrap(), "--json"]));
+    let u = json(&run(&["check", plain.to_str().unwrap(), "--json"]));
+    for (a, b) in screen_labs(&t).iter().zip(screen_labs(&u)) {
+        assert!((0..3).all(|k| (a[k] - b[k]).abs() <= 0.02), "{a:?} against {b:?}");
+    }
+    assert!(
+        t["notes"].to_string().contains("tagged.png embeds the ICC profile"),
+        "{}",
+        t["notes"]
+    );
+    assert!(!u["notes"].to_string().contains("embeds"));
+    // A Display P3 map: its colours are those of CSS Color 4's
+    // color(display-p3 …) (the CSS definition, computed by inkfit's colour
+    // parser, a path apart from the ICC profile and lcms2), within 0.5 ΔE,
+    // and the screen profile given does not change them.
+    let p3 = dir.path().join("p3.png");
+    tagged_png(&p3, 20, 10, &img, builtin("display-p3"));
+    for screen in ["srgb", "rec2020"] {
+        let v = json(&run(&["check", p3.to_str().unwrap(), "--screen", screen, "--json"]));
+        for (e, lab) in v["entries"].as_array().unwrap().iter().zip(screen_labs(&v)) {
+            let hex = e["input"].as_str().unwrap();
+            let code = |k: usize| u8::from_str_radix(&hex[1 + 2 * k..3 + 2 * k], 16).unwrap() as f64 / 255.0;
+            let css = format!("color(display-p3 {} {} {})", code(0), code(1), code(2));
+            let d = json(&run(&[
+                "delta",
+                &css,
+                &format!("lab({}% {} {})", lab[0], lab[1], lab[2]),
+                "--json",
+            ]));
+            let de = d["de00"].as_f64().unwrap();
+            assert!(de <= 0.5, "{hex} on --screen {screen}: ΔE00 {de} from {css}");
+        }
+    }
+    // A profile that does not fit the pixels is an error naming the file.
+    let cmyk = dir.path().join("cmyk-tagged.png");
+    tagged_png(
+        &cmyk,
+        20,
+        10,
+        &img,
+        std::fs::read("profiles/offset-coated.icc").unwrap(),
+    );
+    assert_error(
+        &run(&["check", cmyk.to_str().unwrap()]),
+        &["cmyk-tagged.png", "embedded ICC profile", "RGB"],
+    );
 }

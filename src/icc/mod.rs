@@ -212,6 +212,48 @@ impl fmt::Debug for IccProfile {
     }
 }
 
+/// Checks that an image's own profile can describe its pixels: a connection
+/// space of CIEXYZ or CIELAB (ICC.1:2010, 7.2.7), and an RGB profile with a
+/// table or matrix to it for RGB pixels, a grey one for grey pixels, a CMYK
+/// output profile with a table to it for CMYK pixels.
+pub fn check_embedded(profile: &IccProfile, channels: usize) -> Result<(), String> {
+    use header::{CLASS_OUTPUT, SPACE_CMYK, SPACE_GRAY, SPACE_LAB, SPACE_RGB, SPACE_XYZ};
+    let h = &profile.header;
+    if h.pcs != SPACE_XYZ && h.pcs != SPACE_LAB {
+        return Err(format!(
+            "the embedded profile's connection space is '{}', neither XYZ nor Lab",
+            h.pcs
+        ));
+    }
+    let has = |s: &[u8; 4]| h.tag(s).is_some();
+    let tables = has(b"A2B0") || has(b"A2B1") || has(b"A2B2");
+    let (ok, layout, what) = match channels {
+        1 => (
+            h.color_space == SPACE_GRAY && (tables || profile.is_matrix_shaper()),
+            "a grey",
+            "a grey profile",
+        ),
+        4 => (
+            h.color_space == SPACE_CMYK && h.class == CLASS_OUTPUT && tables,
+            "a CMYK",
+            "a CMYK output profile",
+        ),
+        _ => (
+            h.color_space == SPACE_RGB && (tables || profile.is_matrix_shaper()),
+            "an RGB",
+            "an RGB profile",
+        ),
+    };
+    if ok {
+        Ok(())
+    } else {
+        Err(format!(
+            "the embedded profile is {}; {layout} image needs {what}",
+            profile.kind_phrase()
+        ))
+    }
+}
+
 /// `text` shortened to at most `max` characters (at least 3) by an ellipsis
 /// in the middle: the first half and the last half of what fits.
 pub fn middle_ellipsis(text: &str, max: usize) -> String {

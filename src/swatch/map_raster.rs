@@ -25,7 +25,10 @@ use std::path::Path;
 
 use super::adjacency::{Adjacency, AdjacencySource};
 use super::{Entry, Palette, PaletteError, MAX_ENTRIES};
-use crate::color::css::parse_color;
+use crate::color::css::{parse_color, ColorInput};
+use crate::color::LabD50;
+use crate::icc::transform::{self, Side};
+use crate::icc::{check_embedded, IccProfile, Origin, RenderingIntent};
 use crate::raster::{self, DecodeLimits, Raster};
 
 /// Default smallest share of the map a class covers: 0.05 %, about a
@@ -421,12 +424,75 @@ pub fn read_map(path: &Path, opts: &MapOptions) -> Result<Palette, PaletteError>
         limit: MAX_ENTRIES,
     })?;
     let mut p = palette_of(&file, &m)?;
-    if info.icc.is_some() {
-        p.notes.push(format!(
-            "{file} embeds an ICC profile; its class colours are taken as RGB of the screen profile, not converted from the embedded one"
-        ));
+    if let Some(icc) = &info.icc {
+        in_embedded_profile(&file, path, icc, ch, &mut p)?;
     }
     Ok(p)
+}
+
+/// A map image that embeds an ICC profile was made in that profile's
+/// colours: each class colour (its 8-bit code, the entry's input) is
+/// converted from it to CIELAB D50, relative colorimetric as a check's
+/// screen side is, so the check starts from the colours of the map and the
+/// screen profile does not apply to them. The profile must fit the pixels
+/// (as `proof` requires); one that cannot be used is an error naming the file.
+fn in_embedded_profile(
+    file: &str,
+    path: &Path,
+    icc: &[u8],
+    channels: usize,
+    p: &mut Palette,
+) -> Result<(), PaletteError> {
+    let bad = |detail: String| PaletteError::Format {
+        file: file.to_string(),
+        message: format!("its embedded ICC profile cannot be used: {detail}"),
+    };
+    let name = format!("{file} (embedded profile)");
+    let prof = IccProfile::from_bytes(&name, Origin::File(path.to_path_buf()), icc.to_vec())
+        .map_err(|e| bad(e.to_string()))?;
+    check_embedded(&prof, channels).map_err(bad)?;
+    let codes: Vec<[f64; 3]> = p
+        .entries
+        .iter()
+        .map(|e| match parse_color(&e.input) {
+            Ok(ColorInput::ScreenRgb(rgb)) => rgb,
+            _ => [0.0; 3],
+        })
+        .collect();
+    let lab: Vec<[f64; 3]> = if channels == 1 {
+        let t = transform::local::<f64, [f64; 3]>(
+            Side::of(&prof, lcms2::PixelFormat::GRAY_DBL),
+            Side::Lab,
+            RenderingIntent::Relative,
+            false,
+        )
+        .map_err(|e| bad(e.to_string()))?;
+        let grey: Vec<f64> = codes.iter().map(|c| c[0]).collect();
+        let mut out = vec![[0.0; 3]; grey.len()];
+        t.transform_pixels(&grey, &mut out);
+        out
+    } else {
+        let t = transform::local::<[f64; 3], [f64; 3]>(
+            Side::of(&prof, lcms2::PixelFormat::RGB_DBL),
+            Side::Lab,
+            RenderingIntent::Relative,
+            false,
+        )
+        .map_err(|e| bad(e.to_string()))?;
+        let mut out = vec![[0.0; 3]; codes.len()];
+        t.transform_pixels(&codes, &mut out);
+        out
+    };
+    for (e, l) in p.entries.iter_mut().zip(lab) {
+        e.color = ColorInput::Lab(LabD50::from_array(l));
+    }
+    let what = prof
+        .description()
+        .map_or_else(|| "an ICC profile".to_string(), |d| format!("the ICC profile \"{d}\""));
+    p.notes.push(format!(
+        "{file} embeds {what}: its class colours are converted from it to CIELAB, so --screen does not apply to them"
+    ));
+    Ok(())
 }
 
 /// The palette of a map's classes.
@@ -489,7 +555,11 @@ pub(crate) fn code8(c: &crate::color::css::ColorInput) -> Option<[i64; 3]> {
 pub fn name_classes(map: &mut Palette, legend: &Palette) -> usize {
     let mut named = 0;
     for e in &mut map.entries {
-        let Some(k) = code8(&e.color) else { continue };
+        // A class's 8-bit code is its input text (its colour may have been
+        // converted from the map's own profile).
+        let Some(k) = parse_color(&e.input).ok().as_ref().and_then(code8) else {
+            continue;
+        };
         if let Some(l) = legend.entries.iter().find(|l| code8(&l.color) == Some(k)) {
             e.name = l.name.clone();
             named += 1;
