@@ -356,3 +356,88 @@ fn rendered_artwork_gives_touching_colours_and_shares() {
         &["--render renders SVG artwork"],
     );
 }
+
+fn uses_of(es: &[Entry], h: &str) -> Option<usize> {
+    es.iter()
+        .find(|e| rgb(e) == hex(h))
+        .map(|e| e.usage.as_ref().unwrap().uses)
+}
+
+// SVG 2, 5.6 (the use element): the referenced element is drawn once per
+// use, in a tree that inherits from the use element; SVG 2, 5.5 and 5.3:
+// symbol and the content of defs are not drawn where they stand.
+#[test]
+fn use_draws_its_target_once_per_use_and_inherits_from_the_use() {
+    let es = entries(
+        r##"<defs><path id="mark" d="M0 0h1" fill="#aa0000"/><circle id="dot" r="1"/>
+           <rect id="unused" width="1" height="1" fill="#00aa00"/></defs>
+           <symbol id="sym"><rect width="1" height="1" fill="#0000aa"/></symbol>
+           <use href="#mark"/><use href="#mark"/><use href="#mark"/>
+           <use href="#dot" fill="#aaaa00"/>
+           <use href="#sym"/><use href="#sym"/>"##,
+    );
+    assert_eq!(uses_of(&es, "#aa0000"), Some(3), "three uses of one path");
+    // The circle has no fill of its own: it inherits the use element's.
+    assert_eq!(uses_of(&es, "#aaaa00"), Some(1));
+    assert_eq!(uses_of(&es, "#0000aa"), Some(2), "a symbol drawn by two uses");
+    // Never referenced: not drawn, not read.
+    assert_eq!(uses_of(&es, "#00aa00"), None);
+    // And no black from the unreferenced or undrawn shapes' initial fill.
+    assert_eq!(uses_of(&es, "#000000"), None, "{es:?}");
+}
+
+#[test]
+fn gradients_in_defs_are_still_read_and_xlink_href_is_followed() {
+    let es = entries(
+        r##"<defs><linearGradient id="g"><stop offset="0" stop-color="#123456"/></linearGradient>
+           <g id="pair"><rect width="1" height="1" fill="#654321"/></g></defs>
+           <rect width="1" height="1" fill="url(#g)"/>
+           <use xmlns:xlink="http://www.w3.org/1999/xlink" xlink:href="#pair"/>"##,
+    );
+    assert_eq!(uses_of(&es, "#123456"), Some(1));
+    assert_eq!(uses_of(&es, "#654321"), Some(1));
+}
+
+// SVG 2, 5.6: a use that references itself or an ancestor, or a cycle of
+// uses, is an error in the document; inkfit draws nothing for it and ends.
+#[test]
+fn circular_uses_draw_nothing_and_end() {
+    let es = entries(
+        r##"<g id="a"><rect width="1" height="1" fill="#101010"/><use href="#a"/></g>
+           <defs><g id="b"><use href="#c"/></g><g id="c"><use href="#b"/>
+           <rect width="1" height="1" fill="#202020"/></g></defs>
+           <use href="#b"/>"##,
+    );
+    assert_eq!(uses_of(&es, "#101010"), Some(1));
+    assert_eq!(uses_of(&es, "#202020"), Some(1));
+}
+
+// A file made to multiply: ten uses of ten uses of … of one rect asks for
+// 10⁹ drawings in a few hundred bytes; it is refused, naming the limit.
+#[test]
+fn nested_uses_that_multiply_are_refused() {
+    let mut body = String::from(r##"<defs><rect id="l0" width="1" height="1" fill="#303030"/>"##);
+    for k in 1..=9 {
+        body.push_str(&format!("<g id=\"l{k}\">"));
+        for _ in 0..10 {
+            body.push_str(&format!("<use href=\"#l{}\"/>", k - 1));
+        }
+        body.push_str("</g>");
+    }
+    body.push_str("</defs><use href=\"#l9\"/>");
+    let err = Palette::parse("bomb.svg", &svg(&body), Format::Svg)
+        .unwrap_err()
+        .to_string();
+    assert!(err.contains("bomb.svg") && err.contains("<use>"), "{err}");
+    // Three levels (1,000 drawings) are fine and counted.
+    let mut body = String::from(r##"<defs><rect id="l0" width="1" height="1" fill="#303030"/>"##);
+    for k in 1..=3 {
+        body.push_str(&format!("<g id=\"l{k}\">"));
+        for _ in 0..10 {
+            body.push_str(&format!("<use href=\"#l{}\"/>", k - 1));
+        }
+        body.push_str("</g>");
+    }
+    body.push_str("</defs><use href=\"#l3\"/>");
+    assert_eq!(uses_of(&entries(&body), "#303030"), Some(1000));
+}

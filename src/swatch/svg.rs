@@ -20,7 +20,12 @@
 //!   `stop-color` and `flood-color` black, `lighting-color` white.
 //! - Not painted, so not read: `none`, paint servers (`url(#…)`: their
 //!   stops are read where they are defined), elements under `clipPath` or
-//!   `mask`, and anything with `display: none`.
+//!   `mask`, anything with `display: none`, and what is only defined:
+//!   `symbol` and the content of `defs` (SVG 2, 5.3 and 5.5) other than
+//!   gradients, patterns, filters and markers.
+//! - `use` (SVG 2, 5.6) draws what it references once more, inheriting
+//!   from the `use` element: its paints count once per `use`; a reference
+//!   to itself or to an element that contains it draws nothing.
 //! - Each distinct colour is named by its first user: its `id`, else its
 //!   first class, else the element name with the property; it carries how
 //!   many paints use it and the lowest opacity it is painted with (group
@@ -46,6 +51,26 @@ pub const MAX_STYLE_ATTRIBUTE_BYTES: usize = 16 << 10;
 /// elements would otherwise take hours; a map export with 200 rules and
 /// 100,000 elements needs 20 million.
 pub const MAX_SVG_MATCHES: usize = 50_000_000;
+
+/// Most elements drawn, `use` instances included: nested `use` elements
+/// multiply (ten uses of a group of ten uses of …), so a small file could
+/// otherwise ask for billions.
+pub const MAX_SVG_DRAWN: usize = 2_000_000;
+
+/// What `defs` may hold that is read where it stands: paint servers and the
+/// resources shapes refer to by `url(#…)` (their colours are the ones used).
+/// Deepest chain of `use` elements drawing one another: real artwork nests
+/// a few (a symbol of symbols); each level recurses.
+pub const MAX_USE_DEPTH: usize = 32;
+
+const DEFS_READ: [&str; 6] = [
+    "linearGradient",
+    "radialGradient",
+    "pattern",
+    "filter",
+    "marker",
+    "style",
+];
 
 /// The properties the cascade resolves, by index.
 const PROPS: [&str; 11] = [
@@ -151,21 +176,44 @@ struct Walker<'s> {
     sheet: StyleSheet<'s>,
     found: Vec<Found>,
     index: HashMap<String, usize>,
+    /// Elements by `id`, for `use`.
+    ids: HashMap<&'s str, roxmltree::Node<'s, 's>>,
+    /// The `use` targets being drawn, innermost last.
+    using: Vec<roxmltree::NodeId>,
+    /// Elements drawn so far, `use` instances included.
+    drawn: usize,
+    /// Most elements to draw: [`MAX_SVG_DRAWN`], and no more than the
+    /// matching budget allows for the style sheet's rules.
+    most_drawn: usize,
 }
 
 impl<'s> Walker<'s> {
+    /// Walks `node` and what it contains. `instance`: reached through a
+    /// `use`, which draws a `symbol` as a group.
     fn walk(
         &mut self,
         node: roxmltree::Node<'s, 's>,
         parent: &[String; 11],
         group_opacity: f64,
+        instance: bool,
     ) -> Result<(), PaletteError> {
         let tag = node.tag_name().name();
         if matches!(
             tag,
             "clipPath" | "mask" | "style" | "script" | "title" | "desc" | "metadata"
-        ) {
+        ) || (tag == "symbol" && !instance)
+        {
             return Ok(());
+        }
+        self.drawn += 1;
+        if self.drawn > self.most_drawn {
+            return Err(PaletteError::Format {
+                file: self.file.to_string(),
+                message: format!(
+                    "it draws more than {} elements, <use> instances included; inkfit reads up to that many",
+                    self.most_drawn
+                ),
+            });
         }
         let mut slot: [Option<Declared<'s>>; 11] = [None; 11];
         for a in node.attributes() {
@@ -263,10 +311,50 @@ impl<'s> Walker<'s> {
             "feDiffuseLighting" | "feSpecularLighting" => self.paint(node, of(LIGHTING, 1.0))?,
             _ => {}
         }
+        if tag == "use" {
+            return self.draw_use(node, &computed, opacity);
+        }
         for child in node.children().filter(roxmltree::Node::is_element) {
-            self.walk(child, &computed, opacity)?;
+            if tag == "defs" && !DEFS_READ.contains(&child.tag_name().name()) {
+                continue;
+            }
+            self.walk(child, &computed, opacity, false)?;
         }
         Ok(())
+    }
+
+    /// Draws the element a `use` references, inheriting from the `use`.
+    fn draw_use(
+        &mut self,
+        node: roxmltree::Node<'s, 's>,
+        computed: &[String; 11],
+        opacity: f64,
+    ) -> Result<(), PaletteError> {
+        const XLINK: &str = "http://www.w3.org/1999/xlink";
+        let href = node.attribute("href").or_else(|| node.attribute((XLINK, "href")));
+        let Some(target) = href
+            .and_then(|h| h.trim().strip_prefix('#'))
+            .and_then(|id| self.ids.get(id).copied())
+        else {
+            return Ok(());
+        };
+        // A reference to itself, to an element containing it, or round a
+        // chain of uses draws nothing (SVG 2, 5.6: circular references are
+        // an error).
+        if node.ancestors().any(|a| a == target) || self.using.contains(&target.id()) {
+            return Ok(());
+        }
+        if self.using.len() >= MAX_USE_DEPTH {
+            return Err(PaletteError::Syntax {
+                file: self.file.to_string(),
+                line: line_at(self.doc_text.as_bytes(), node.range().start),
+                message: format!("<use> elements nested more than {MAX_USE_DEPTH} deep"),
+            });
+        }
+        self.using.push(target.id());
+        let r = self.walk(target, computed, opacity, true);
+        self.using.pop();
+        r
     }
 
     /// Records the paint of property `prop` of `node`, if it paints.
@@ -426,15 +514,30 @@ pub fn parse_svg(file: &str, text: &str) -> Result<Vec<Entry>, PaletteError> {
             ),
         });
     }
+    let ids = doc
+        .descendants()
+        .filter_map(|n| Some((n.attribute("id")?, n)))
+        .fold(HashMap::new(), |mut m, (id, n)| {
+            // The first element with an id is the one a reference finds.
+            m.entry(id).or_insert(n);
+            m
+        });
+    let most_drawn = MAX_SVG_DRAWN
+        .min(MAX_SVG_MATCHES / sheet.rules.len().max(1))
+        .max(elements);
     let mut w = Walker {
         file,
         doc_text: text,
         sheet,
         found: Vec::new(),
         index: HashMap::new(),
+        ids,
+        using: Vec::new(),
+        drawn: 0,
+        most_drawn,
     };
     let initial: [String; 11] = INITIAL.map(str::to_string);
-    w.walk(root, &initial, 1.0)?;
+    w.walk(root, &initial, 1.0, false)?;
     Ok(w.found
         .into_iter()
         .map(|f| Entry {
