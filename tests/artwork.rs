@@ -412,32 +412,29 @@ fn circular_uses_draw_nothing_and_end() {
     assert_eq!(uses_of(&es, "#202020"), Some(1));
 }
 
+/// `levels` groups, each of ten uses of the one below, over one rect:
+/// 10^levels drawings.
+fn nested_uses(levels: usize) -> String {
+    let mut body = String::from(r##"<defs><rect id="l0" width="1" height="1" fill="#303030"/>"##);
+    for k in 1..=levels {
+        body.push_str(&format!("<g id=\"l{k}\">"));
+        for _ in 0..10 {
+            body.push_str(&format!("<use href=\"#l{}\"/>", k - 1));
+        }
+        body.push_str("</g>");
+    }
+    body.push_str(&format!("</defs><use href=\"#l{levels}\"/>"));
+    body
+}
+
 // A file made to multiply: ten uses of ten uses of … of one rect asks for
 // 10⁹ drawings in a few hundred bytes; it is refused, naming the limit.
 #[test]
 fn nested_uses_that_multiply_are_refused() {
-    let mut body = String::from(r##"<defs><rect id="l0" width="1" height="1" fill="#303030"/>"##);
-    for k in 1..=9 {
-        body.push_str(&format!("<g id=\"l{k}\">"));
-        for _ in 0..10 {
-            body.push_str(&format!("<use href=\"#l{}\"/>", k - 1));
-        }
-        body.push_str("</g>");
-    }
-    body.push_str("</defs><use href=\"#l9\"/>");
-    let err = Palette::parse("bomb.svg", &svg(&body), Format::Svg)
+    let err = Palette::parse("bomb.svg", &svg(&nested_uses(9)), Format::Svg)
         .unwrap_err()
         .to_string();
     assert!(err.contains("bomb.svg") && err.contains("<use>"), "{err}");
     // Three levels (1,000 drawings) are fine and counted.
-    let mut body = String::from(r##"<defs><rect id="l0" width="1" height="1" fill="#303030"/>"##);
-    for k in 1..=3 {
-        body.push_str(&format!("<g id=\"l{k}\">"));
-        for _ in 0..10 {
-            body.push_str(&format!("<use href=\"#l{}\"/>", k - 1));
-        }
-        body.push_str("</g>");
-    }
-    body.push_str("</defs><use href=\"#l3\"/>");
-    assert_eq!(uses_of(&entries(&body), "#303030"), Some(1000));
+    assert_eq!(uses_of(&entries(&nested_uses(3)), "#303030"), Some(1000));
 }

@@ -20,11 +20,15 @@ fn sample8(s: &[u8], bits: u8, i: usize) -> u32 {
     }
 }
 
-/// A preview of an RGB image (3 samples a pixel, `bits` 8 or 16): the mean
-/// of each block in the encoded values. Averaging encoded rather than
-/// linear values darkens fine high-contrast detail a little; a preview shows
-/// the picture, not its exact colours. Returns the samples, width and height.
-pub fn preview_mean(rgb: &[u8], width: u32, height: u32, bits: u8, max_side: u32) -> (Vec<u8>, u32, u32) {
+/// Reduces an image by the whole factor that fits `max_side`: `pick` gives
+/// the colour of each preview pixel from the indices of the image pixels its
+/// block holds. Returns the samples, width and height.
+fn reduce(
+    width: u32,
+    height: u32,
+    max_side: u32,
+    mut pick: impl FnMut(&mut dyn Iterator<Item = usize>) -> [u8; 3],
+) -> (Vec<u8>, u32, u32) {
     let k = factor(width, height, max_side);
     let (pw, ph) = (width.div_ceil(k), height.div_ceil(k));
     let (w, k) = (width as usize, k as usize);
@@ -33,20 +37,28 @@ pub fn preview_mean(rgb: &[u8], width: u32, height: u32, bits: u8, max_side: u32
         let rows = py * k..((py + 1) * k).min(height as usize);
         for px in 0..pw as usize {
             let cols = px * k..((px + 1) * k).min(w);
-            let mut sum = [0u32; 3];
-            let n = (rows.len() * cols.len()) as u32;
-            for y in rows.clone() {
-                for x in cols.clone() {
-                    let i = (y * w + x) * 3;
-                    for (c, s) in sum.iter_mut().enumerate() {
-                        *s += sample8(rgb, bits, i + c);
-                    }
-                }
-            }
-            out.extend(sum.map(|s| ((s + n / 2) / n) as u8));
+            let mut block = rows.clone().flat_map(|y| cols.clone().map(move |x| y * w + x));
+            out.extend(pick(&mut block));
         }
     }
     (out, pw, ph)
+}
+
+/// A preview of an RGB image (3 samples a pixel, `bits` 8 or 16): the mean
+/// of each block in the encoded values. Averaging encoded rather than
+/// linear values darkens fine high-contrast detail a little; a preview shows
+/// the picture, not its exact colours. Returns the samples, width and height.
+pub fn preview_mean(rgb: &[u8], width: u32, height: u32, bits: u8, max_side: u32) -> (Vec<u8>, u32, u32) {
+    reduce(width, height, max_side, |block| {
+        let (mut sum, mut n) = ([0u32; 3], 0u32);
+        for i in block {
+            for (c, s) in sum.iter_mut().enumerate() {
+                *s += sample8(rgb, bits, 3 * i + c);
+            }
+            n += 1;
+        }
+        sum.map(|s| ((s + n / 2) / n.max(1)) as u8)
+    })
 }
 
 /// A preview of an 8-bit RGB image that keeps, of each block, the pixel of
@@ -55,31 +67,17 @@ pub fn preview_mean(rgb: &[u8], width: u32, height: u32, bits: u8, max_side: u32
 /// value: the preview hides no spot where the print changes most, and
 /// shows no colour that is not on the scale (which a mean would).
 pub fn preview_brightest(rgb: &[u8], width: u32, height: u32, max_side: u32) -> (Vec<u8>, u32, u32) {
-    let k = factor(width, height, max_side);
-    let (pw, ph) = (width.div_ceil(k), height.div_ceil(k));
-    let (w, k) = (width as usize, k as usize);
-    let mut out = Vec::with_capacity(pw as usize * ph as usize * 3);
-    for py in 0..ph as usize {
-        let rows = py * k..((py + 1) * k).min(height as usize);
-        for px in 0..pw as usize {
-            let cols = px * k..((px + 1) * k).min(w);
-            let mut best = (0u32, [0u8; 3]);
-            let mut first = true;
-            for y in rows.clone() {
-                for x in cols.clone() {
-                    let i = (y * w + x) * 3;
-                    let p = [rgb[i], rgb[i + 1], rgb[i + 2]];
-                    let luma = 299 * u32::from(p[0]) + 587 * u32::from(p[1]) + 114 * u32::from(p[2]);
-                    if first || luma > best.0 {
-                        best = (luma, p);
-                        first = false;
-                    }
-                }
+    reduce(width, height, max_side, |block| {
+        let luma = |p: &[u8; 3]| 299 * u32::from(p[0]) + 587 * u32::from(p[1]) + 114 * u32::from(p[2]);
+        let mut best: Option<[u8; 3]> = None;
+        for i in block {
+            let p = [rgb[3 * i], rgb[3 * i + 1], rgb[3 * i + 2]];
+            if best.is_none_or(|b| luma(&p) > luma(&b)) {
+                best = Some(p);
             }
-            out.extend(best.1);
         }
-    }
-    (out, pw, ph)
+        best.unwrap_or([0; 3])
+    })
 }
 
 #[cfg(test)]

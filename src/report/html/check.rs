@@ -63,44 +63,11 @@ pub fn render(p: &CheckPage<'_>) -> String {
 }
 
 fn conditions(b: &mut String, r: &CheckReport) {
-    let c = &r.conditions;
-    let rows = [
-        ("Screen", c.screen.clone()),
-        ("Press", c.press.clone()),
-        (
-            "Rendering intent",
-            format!(
-                "{}, black point compensation {}{}",
-                c.intent,
-                if c.bpc { "on" } else { "off" },
-                if c.paper_white {
-                    "; print shown on the paper's own white"
-                } else {
-                    ""
-                }
-            ),
-        ),
-        (
-            "Tolerance",
-            format!("ΔE00 {} (a rule of thumb, not a standard)", fixed(c.tolerance, 1)),
-        ),
-        ("Gamut test", c.gamut_test_method.clone()),
-        (
-            "Ink limit",
-            match r.ink_limit {
-                Some(l) => format!("{} % C+M+Y+K", fixed(l.percent, 1)),
-                None => "none known".to_string(),
-            },
-        ),
-    ];
-    b.push_str("<dl class=\"conditions\">\n");
-    for (k, v) in rows {
-        let _ = writeln!(b, "<dt>{k}</dt><dd>{}</dd>", escape(&v));
-    }
-    for n in &c.notes {
-        let _ = writeln!(b, "<dt>Note</dt><dd>{}</dd>", escape(n));
-    }
-    b.push_str("</dl>\n");
+    let ink = match r.ink_limit {
+        Some(l) => format!("{} % C+M+Y+K", fixed(l.percent, 1)),
+        None => "none known".to_string(),
+    };
+    super::conditions_list(b, &r.conditions, "ΔE00", &[("Ink limit", ink)]);
 }
 
 fn verdict(b: &mut String, p: &CheckPage<'_>) {
@@ -163,11 +130,7 @@ fn entries(b: &mut String, r: &CheckReport) {
         ("Verdict", false),
     ]);
     for (h, num) in head {
-        let _ = write!(
-            b,
-            "<th scope=\"col\"{}>{h}</th>",
-            if num { " class=\"num\"" } else { "" }
-        );
+        super::th(b, h, num);
     }
     b.push_str("</tr></thead>\n<tbody>\n");
     for (i, e) in r.entries.iter().enumerate() {

@@ -5,7 +5,7 @@
 
 use std::fmt::Write as _;
 
-use super::{document, escape, inline_svg, patch_compact, PageColour};
+use super::{document, escape, inline_svg, patch_compact, th, PageColour};
 use crate::gamut::result::GamutReport;
 use crate::gamut::DeviceKind;
 use crate::precision::fixed;
@@ -195,13 +195,4 @@ fn sectors(b: &mut String, r: &GamutReport) {
         b.push_str("</tr>\n");
     }
     b.push_str("</tbody>\n</table>\n");
-}
-
-fn th(b: &mut String, h: &str, num: bool) {
-    let _ = write!(
-        b,
-        "<th scope=\"col\"{}>{}</th>",
-        if num { " class=\"num\"" } else { "" },
-        escape(h)
-    );
 }

@@ -91,6 +91,65 @@ fn patch_marked(out: &mut String, role: &str, c: &PageColour, label: &str, compa
     }
 }
 
+/// The conditions a page opens with, as a definition list: screen, press,
+/// rendering intent and BPC with how the print is shown, the tolerance
+/// (`tolerance_of` says of what: "ΔE00", "95th-percentile ΔE00"), the
+/// gamut test, then `extra` rows and the notes.
+pub fn conditions_list(
+    b: &mut String,
+    c: &crate::conditions::Conditions,
+    tolerance_of: &str,
+    extra: &[(&str, String)],
+) {
+    let rows = [
+        ("Screen", c.screen.clone()),
+        ("Press", c.press.clone()),
+        (
+            "Rendering intent",
+            format!(
+                "{}, black point compensation {}; print shown {}",
+                c.intent,
+                if c.bpc { "on" } else { "off" },
+                if c.paper_white {
+                    "on the paper's own white (absolute colorimetric)"
+                } else {
+                    "media-relative (relative colorimetric)"
+                }
+            ),
+        ),
+        (
+            "Tolerance",
+            format!(
+                "{tolerance_of} {} (a rule of thumb, not a standard)",
+                crate::precision::fixed(c.tolerance, 1)
+            ),
+        ),
+        ("Gamut test", c.gamut_test_method.clone()),
+    ];
+    b.push_str("<dl class=\"conditions\">\n");
+    for (k, v) in rows
+        .iter()
+        .map(|(k, v)| (*k, v))
+        .chain(extra.iter().map(|(k, v)| (*k, v)))
+    {
+        let _ = writeln!(b, "<dt>{k}</dt><dd>{}</dd>", escape(v));
+    }
+    for n in &c.notes {
+        let _ = writeln!(b, "<dt>Note</dt><dd>{}</dd>", escape(n));
+    }
+    b.push_str("</dl>\n");
+}
+
+/// A column header cell; `num` right-aligns it over numbers.
+pub fn th(b: &mut String, h: &str, num: bool) {
+    let _ = write!(
+        b,
+        "<th scope=\"col\"{}>{}</th>",
+        if num { " class=\"num\"" } else { "" },
+        escape(h)
+    );
+}
+
 /// The caution every page carries.
 pub const CAUTION: &str = "This page is a screen preview computed from ICC profiles, not a contract proof. \
 Its patches are sRGB approximations shown on an unknown display. Contract proofs and press approval follow \

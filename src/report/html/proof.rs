@@ -97,40 +97,7 @@ pub fn render(p: &ProofPage<'_>) -> String {
 }
 
 fn conditions(b: &mut String, r: &ProofReport) {
-    let c = &r.conditions;
-    let rows = [
-        ("Screen", c.screen.clone()),
-        ("Press", c.press.clone()),
-        (
-            "Rendering intent",
-            format!(
-                "{}, black point compensation {}; print shown {}",
-                c.intent,
-                if c.bpc { "on" } else { "off" },
-                if c.paper_white {
-                    "on the paper's own white (absolute colorimetric)"
-                } else {
-                    "media-relative (relative colorimetric)"
-                }
-            ),
-        ),
-        (
-            "Tolerance",
-            format!(
-                "95th-percentile ΔE00 {} (a rule of thumb, not a standard)",
-                fixed(c.tolerance, 1)
-            ),
-        ),
-        ("Gamut test", c.gamut_test_method.clone()),
-    ];
-    b.push_str("<dl class=\"conditions\">\n");
-    for (k, v) in rows {
-        let _ = writeln!(b, "<dt>{k}</dt><dd>{}</dd>", escape(&v));
-    }
-    for n in &c.notes {
-        let _ = writeln!(b, "<dt>Note</dt><dd>{}</dd>", escape(n));
-    }
-    b.push_str("</dl>\n");
+    super::conditions_list(b, &r.conditions, "95th-percentile ΔE00", &[]);
 }
 
 fn verdict(b: &mut String, r: &ProofReport) {
@@ -191,12 +158,7 @@ fn overview(b: &mut String, r: &ProofReport) {
         ("> 10 %", true),
         ("Outside gamut %", true),
     ] {
-        let _ = write!(
-            b,
-            "<th scope=\"col\"{}>{}</th>",
-            if num { " class=\"num\"" } else { "" },
-            escape(h)
-        );
+        super::th(b, h, num);
     }
     b.push_str("</tr></thead>\n<tbody>\n");
     let pct = |v: f64| fixed(100.0 * v, 1);
