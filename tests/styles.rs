@@ -177,3 +177,50 @@ fn bad_styles_are_refused_with_the_file_and_line() {
     std::fs::write(&empty, sld("<Rule><Name>x</Name></Rule>")).unwrap();
     assert_error(&run(&["check", empty.to_str().unwrap()]), &["empty.sld", "no colours"]);
 }
+
+// OGC Symbology Encoding 1.1 (05-077r4), 11.6: Recode (11.6.4: LookupValue,
+// MapItem with Data and Value, fallbackValue), Categorize (11.6.2:
+// Value, then Threshold and Value pairs) and Interpolate (11.6.3:
+// InterpolationPoint with Data and Value) give a paint from the data;
+// their outputs here are literal colours, one entry each.
+#[test]
+fn se_functions_with_literal_colours_give_one_entry_per_colour() {
+    let text = "<se:FeatureTypeStyle xmlns:se='http://www.opengis.net/se' xmlns:ogc='http://www.opengis.net/ogc' version='1.1.0'>\
+        <se:Rule><se:Name>Land use</se:Name><se:PolygonSymbolizer><se:Fill><se:SvgParameter name='fill'>\
+          <se:Recode fallbackValue='#cccccc'><se:LookupValue><ogc:PropertyName>landuse</ogc:PropertyName></se:LookupValue>\
+            <se:MapItem><se:Data>forest</se:Data><se:Value>#2f6b3a</se:Value></se:MapItem>\
+            <se:MapItem><se:Data>pasture</se:Data><se:Value>#98c46a</se:Value></se:MapItem>\
+          </se:Recode></se:SvgParameter></se:Fill>\
+          <se:Stroke><se:SvgParameter name='stroke'>\
+          <se:Categorize fallbackValue='#000000'><se:LookupValue><ogc:PropertyName>rank</ogc:PropertyName></se:LookupValue>\
+            <se:Value>#dddddd</se:Value><se:Threshold>10</se:Threshold><se:Value>#555555</se:Value>\
+          </se:Categorize></se:SvgParameter></se:Stroke></se:PolygonSymbolizer></se:Rule>\
+        <se:Rule><se:Name>Relief</se:Name><se:PolygonSymbolizer><se:Fill><se:SvgParameter name='fill'>\
+          <se:Interpolate><se:LookupValue><ogc:PropertyName>height</ogc:PropertyName></se:LookupValue>\
+            <se:InterpolationPoint><se:Data>0</se:Data><se:Value>#f2e27a</se:Value></se:InterpolationPoint>\
+            <se:InterpolationPoint><se:Data>500</se:Data><se:Value>#a68a78</se:Value></se:InterpolationPoint>\
+          </se:Interpolate></se:SvgParameter></se:Fill></se:PolygonSymbolizer></se:Rule>\
+        </se:FeatureTypeStyle>";
+    let p = Palette::parse("t.se", text, Format::Sld).unwrap();
+    let got: Vec<(&str, String)> = p.entries.iter().map(|e| (e.name.as_str(), hex(e))).collect();
+    assert_eq!(
+        got,
+        vec![
+            ("Land use: forest", "#2f6b3a".to_string()),
+            ("Land use: pasture", "#98c46a".to_string()),
+            ("Land use: other", "#cccccc".to_string()),
+            ("Land use: lowest stroke", "#dddddd".to_string()),
+            ("Land use: from 10 stroke", "#555555".to_string()),
+            ("Land use: other stroke", "#000000".to_string()),
+            ("Relief: 0", "#f2e27a".to_string()),
+            ("Relief: 500", "#a68a78".to_string()),
+        ]
+    );
+    // A map item whose colour is itself computed is still refused, with its line.
+    let computed = text.replace(
+        "<se:Value>#98c46a</se:Value>",
+        "<se:Value><ogc:PropertyName>c</ogc:PropertyName></se:Value>",
+    );
+    let err = Palette::parse("t.se", &computed, Format::Sld).unwrap_err().to_string();
+    assert!(err.contains("t.se") && err.contains("computed"), "{err}");
+}

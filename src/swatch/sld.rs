@@ -14,9 +14,14 @@
 //!   its quantity), in quantity order. A style that is only a colour map is
 //!   a sequential scheme unless `--scheme` says otherwise. An entry of
 //!   opacity 0 (the usual "no data") prints nothing and is left out.
-//! - A parameter's value is its text, an `ogc:Literal` included; a value
-//!   computed from the data (`ogc:Function`, `ogc:PropertyName`) cannot be
-//!   checked and is an error naming its line.
+//! - A parameter's value is its text, an `ogc:Literal` included. A `fill`
+//!   or `stroke` given by an SE 1.1 function of the data whose outputs are
+//!   literal colours (11.6: `Recode`, `Categorize`, `Interpolate`) gives
+//!   one entry per colour it can paint, named by the rule and the data
+//!   value (`Land use: forest`; `Categorize`: "lowest", "from 10"; the
+//!   `fallbackValue`: "other"). Any other value computed from the data
+//!   (`ogc:Function`, `ogc:PropertyName`) cannot be checked and is an error
+//!   naming its line.
 
 use roxmltree::Node;
 
@@ -26,6 +31,15 @@ use crate::color::css::parse_color_with_alpha;
 
 fn child<'a, 'i>(n: Node<'a, 'i>, name: &str) -> Option<Node<'a, 'i>> {
     n.children().find(|c| c.is_element() && c.tag_name().name() == name)
+}
+
+/// SE 1.1 functions (11.6) whose outputs are literal values.
+const SE_FUNCTIONS: [&str; 3] = ["Recode", "Categorize", "Interpolate"];
+
+/// The SE 1.1 function that gives a parameter's value, if one does.
+fn se_function<'a, 'i>(p: Node<'a, 'i>) -> Option<Node<'a, 'i>> {
+    p.children()
+        .find(|c| c.is_element() && SE_FUNCTIONS.contains(&c.tag_name().name()))
 }
 
 fn text_of(n: Node<'_, '_>) -> String {
@@ -115,7 +129,12 @@ impl Reader<'_> {
             .filter(|c| c.is_element() && matches!(c.tag_name().name(), "CssParameter" | "SvgParameter"))
         {
             if let Some(name) = p.attribute("name") {
-                v.push((name.to_string(), self.literal(p)?, p));
+                // A function's colours are read where the paint is.
+                let value = match se_function(p) {
+                    Some(_) => String::new(),
+                    None => self.literal(p)?,
+                };
+                v.push((name.to_string(), value, p));
             }
         }
         Ok(v)
@@ -165,9 +184,69 @@ impl Reader<'_> {
             } else {
                 " stroke"
             };
-            self.push(*at, format!("{base}{role}"), value, opacity, colour_name)?;
+            match se_function(*at) {
+                Some(f) => {
+                    for (data, colour, node) in self.function_values(f)? {
+                        self.push(node, format!("{base}: {data}{role}"), &colour, opacity, colour_name)?;
+                    }
+                }
+                None => self.push(*at, format!("{base}{role}"), value, opacity, colour_name)?,
+            }
         }
         Ok(())
+    }
+
+    /// Every colour an SE 1.1 function can give (11.6.2 Categorize, 11.6.3
+    /// Interpolate, 11.6.4 Recode), with the data value it stands for, in
+    /// document order; the `fallbackValue` last as "other".
+    fn function_values<'a, 'i>(&self, f: Node<'a, 'i>) -> Result<Vec<(String, String, Node<'a, 'i>)>, PaletteError> {
+        let mut out = Vec::new();
+        match f.tag_name().name() {
+            "Recode" => {
+                for item in f
+                    .children()
+                    .filter(|c| c.is_element() && c.tag_name().name() == "MapItem")
+                {
+                    let data = child(item, "Data").map(text_of).unwrap_or_default();
+                    let Some(value) = child(item, "Value") else {
+                        return Err(self.err(item, "a MapItem without a Value".into()));
+                    };
+                    out.push((data, self.literal(value)?, value));
+                }
+            }
+            "Categorize" => {
+                let mut below: Option<String> = None;
+                for c in f.children().filter(Node::is_element) {
+                    match c.tag_name().name() {
+                        "Threshold" => below = Some(text_of(c)),
+                        "Value" => {
+                            let name = below.as_ref().map_or("lowest".to_string(), |t| format!("from {t}"));
+                            out.push((name, self.literal(c)?, c));
+                        }
+                        _ => {}
+                    }
+                }
+            }
+            _ => {
+                for point in f
+                    .children()
+                    .filter(|c| c.is_element() && c.tag_name().name() == "InterpolationPoint")
+                {
+                    let data = child(point, "Data").map(text_of).unwrap_or_default();
+                    let Some(value) = child(point, "Value") else {
+                        return Err(self.err(point, "an InterpolationPoint without a Value".into()));
+                    };
+                    out.push((data, self.literal(value)?, value));
+                }
+            }
+        }
+        if let Some(fallback) = f.attribute("fallbackValue").filter(|v| !v.trim().is_empty()) {
+            out.push(("other".to_string(), fallback.trim().to_string(), f));
+        }
+        if out.is_empty() {
+            return Err(self.err(f, format!("a {} without any colour", f.tag_name().name())));
+        }
+        Ok(out)
     }
 
     /// The entries of a colour map, in quantity order.
