@@ -630,3 +630,45 @@ fn figures_and_pages_say_what_they_wrote() {
         assert!(!Path::new(&bad).exists());
     }
 }
+
+/// The library alone, composed as a script or a binding would (read the
+/// palette, check it with the boundary test, analyse, judge), gives the
+/// JSON of `inkfit check --json` byte for byte: one computation, two doors.
+#[test]
+fn the_library_gives_the_check_json_of_the_command_line() {
+    use inkfit::color::cvd::Deficiency;
+    use inkfit::conditions::GamutTest;
+    use inkfit::icc::transform::PressMapping;
+    use inkfit::icc::{IccProfile, RenderingIntent};
+    use inkfit::swatch::check::check_with_test;
+    use inkfit::swatch::survival::{analyse_check_with, verdict, CheckWithSurvival, SurvivalOptions};
+    use inkfit::swatch::Palette;
+    let path = demo("landuse.csv");
+    let palette = Palette::read(Path::new(&path)).unwrap();
+    let screen = IccProfile::load("srgb").unwrap();
+    let press = IccProfile::load("offset-coated").unwrap();
+    let mapping = PressMapping {
+        intent: RenderingIntent::Relative,
+        bpc: true,
+        paper_white: false,
+    };
+    let (r, _) = check_with_test(&palette, &screen, &press, mapping, 3.0, GamutTest::Boundary).unwrap();
+    let opts = SurvivalOptions {
+        cvd: vec![Deficiency::Deutan],
+        ..SurvivalOptions::default()
+    };
+    let s = analyse_check_with(&r, &opts, &|_| {});
+    let v = verdict(&r, &s);
+    let mut lib = Vec::new();
+    inkfit::report::write_json(
+        &mut lib,
+        &CheckWithSurvival {
+            check: &r,
+            survival: &s,
+            verdict: &v,
+        },
+    )
+    .unwrap();
+    let o = run(&["check", &path, "--cvd", "deutan", "--json"]);
+    assert_eq!(String::from_utf8(lib).unwrap(), stdout(&o));
+}

@@ -10,13 +10,12 @@ use super::{busy, guarded_outputs, use_color, Error, GamutTestArg, Outcome, BUSY
 use super::{MappingArgs, ProfileArgs, SurvivalArgs};
 use crate::color::css::parse_color;
 use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
-use crate::gamut::InkLimit;
 use crate::icc::transform::resolve_lab;
 use crate::icc::IccProfile;
 use crate::precision::round;
 use crate::report::{self, DeltaColor, DeltaReport};
 use crate::swatch::adjacency::read_adjacency;
-use crate::swatch::check::{check_against, CheckOptions};
+use crate::swatch::check::check_with_test;
 use crate::swatch::map_raster::MapOptions;
 use crate::swatch::{Format, Palette};
 
@@ -156,22 +155,8 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
         palette.entries.len() >= BUSY_FROM && !a.json,
         format!("checking {} colours against {}", palette.entries.len(), press.name),
     );
-    let press_gamut = match a.gamut_test {
-        GamutTestArg::Boundary => Some(crate::gamut::Gamut::of_profile(&press, Default::default())?),
-        GamutTestArg::RoundTrip => None,
-    };
-    // The press's ink limit: the one its gamut was computed with, or the
-    // same measurement of its CIELAB → CMYK table.
-    let ink_limit = match &press_gamut {
-        Some(g) => g.ink_limit,
-        None => InkLimit::measure(&press),
-    };
-    let opts = CheckOptions {
-        mapping: a.mapping.mapping(a.paper_white),
-        tolerance: a.tolerance,
-        ink_limit,
-    };
-    let r = check_against(&palette, &screen, &press, opts, press_gamut.as_ref())?;
+    let mapping = a.mapping.mapping(a.paper_white);
+    let (r, press_gamut) = check_with_test(&palette, &screen, &press, mapping, a.tolerance, a.gamut_test.into())?;
     spinner.finish_and_clear();
     // Comparing every pair grows with the square of the count: a bar.
     let bar = super::progress_bar(
@@ -190,7 +175,7 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
             .filter(|f| f.below_floor)
             .map(|f| [f.a - 1, f.b - 1])
             .collect();
-        let fig = super::plot::check_figure(&r, &screen, &press, press_gamut.as_ref(), opts.mapping, &collapsed)?;
+        let fig = super::plot::check_figure(&r, &screen, &press, press_gamut.as_ref(), mapping, &collapsed)?;
         let svg = crate::plot::render(&fig);
         if let Some(p) = &a.svg {
             outputs.stage_bytes(p, svg.as_bytes())?;

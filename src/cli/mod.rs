@@ -128,6 +128,15 @@ pub enum GamutTestArg {
     RoundTrip,
 }
 
+impl From<GamutTestArg> for crate::conditions::GamutTest {
+    fn from(t: GamutTestArg) -> Self {
+        match t {
+            GamutTestArg::Boundary => Self::Boundary,
+            GamutTestArg::RoundTrip => Self::RoundTrip,
+        }
+    }
+}
+
 /// `--scheme`: the kind of palette.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
 pub enum SchemeArg {

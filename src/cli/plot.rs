@@ -8,12 +8,13 @@ use clap::Args;
 
 use super::MappingArgs;
 use super::{Error, Outcome};
+use crate::conditions::GamutTest;
 use crate::gamut::Gamut;
 use crate::icc::transform::{resolve_lab, PressMapping};
 use crate::icc::IccProfile;
 use crate::io::Outputs;
 use crate::plot::{self, Figure, PlotError, PlotKind, Swatch};
-use crate::swatch::check::{check_against, CheckOptions, CheckReport, DEFAULT_TOLERANCE};
+use crate::swatch::check::{check_with_test, CheckReport, DEFAULT_TOLERANCE};
 use crate::swatch::Palette;
 
 /// The options of `plot`.
@@ -134,18 +135,12 @@ pub fn run_plot(a: PlotArgs) -> Result<Outcome, Error> {
     }
     outputs.claim(&a.out)?;
     // Compute.
-    let press_gamut = match (&press, &palette) {
-        (Some(p), Some(_)) => Some(Gamut::of_profile(p, Default::default())?),
-        _ => None,
-    };
+    let mut press_gamut = None;
     let swatches = match (&palette, &press) {
         (Some(pal), Some(pr)) => {
-            let opts = CheckOptions {
-                mapping,
-                tolerance: DEFAULT_TOLERANCE,
-                ink_limit: press_gamut.as_ref().and_then(|g| g.ink_limit),
-            };
-            Swatch::from_check(&check_against(pal, &screen, pr, opts, press_gamut.as_ref())?)
+            let (r, g) = check_with_test(pal, &screen, pr, mapping, DEFAULT_TOLERANCE, GamutTest::Boundary)?;
+            press_gamut = g;
+            Swatch::from_check(&r)
         }
         (Some(pal), None) => {
             let colors: Vec<_> = pal.entries.iter().map(|e| e.color).collect();

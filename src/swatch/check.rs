@@ -44,6 +44,9 @@ pub enum CheckError {
     /// A profile could not be loaded or a transform built.
     #[error(transparent)]
     Icc(#[from] IccError),
+    /// The press gamut for the boundary test could not be computed.
+    #[error(transparent)]
+    Gamut(#[from] crate::gamut::GamutError),
     /// A colour that the profiles turn into no finite number: no NaN or
     /// infinity may reach a table or JSON.
     #[error("palette '{file}', line {line}: \"{input}\" gives no finite {what} through these profiles")]
@@ -185,6 +188,36 @@ pub struct CheckReport {
     /// gradients, stray colours).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub unclassified_share: Option<f64>,
+}
+
+/// The check as `inkfit check` runs it, with `test` deciding `in_gamut`:
+/// for [`GamutTest::Boundary`] the press's gamut solid is computed first
+/// (and returned, for figures). Entries are held to the ink limit that gamut
+/// was computed with, or without one to the limit measured from the press
+/// profile's CIELAB → CMYK table ([`InkLimit::measure`]).
+pub fn check_with_test(
+    palette: &Palette,
+    screen: &IccProfile,
+    press: &IccProfile,
+    mapping: PressMapping,
+    tolerance: f64,
+    test: GamutTest,
+) -> Result<(CheckReport, Option<crate::gamut::Gamut>), CheckError> {
+    let gamut = match test {
+        GamutTest::Boundary => Some(crate::gamut::Gamut::of_profile(press, Default::default())?),
+        GamutTest::RoundTrip => None,
+    };
+    let ink_limit = match &gamut {
+        Some(g) => g.ink_limit,
+        None => InkLimit::measure(press),
+    };
+    let opts = CheckOptions {
+        mapping,
+        tolerance,
+        ink_limit,
+    };
+    let r = check_against(palette, screen, press, opts, gamut.as_ref())?;
+    Ok((r, gamut))
 }
 
 /// Runs the check of `palette` from `screen` onto `press` with the
