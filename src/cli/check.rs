@@ -9,11 +9,9 @@ use clap::Args;
 use super::{busy, guarded_outputs, use_color, Error, GamutTestArg, Outcome, BUSY_FROM};
 use super::{MappingArgs, ProfileArgs, SurvivalArgs};
 use crate::color::css::parse_color;
-use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
 use crate::icc::transform::resolve_lab;
 use crate::icc::IccProfile;
-use crate::precision::round;
-use crate::report::{self, DeltaColor, DeltaReport};
+use crate::report::{self, DeltaReport};
 use crate::swatch::adjacency::read_adjacency;
 use crate::swatch::check::check_with_test;
 use crate::swatch::map_raster::MapOptions;
@@ -219,20 +217,7 @@ pub(super) fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Er
             return Err(format!("\"{text}\" gives no finite CIELAB through these profiles").into());
         }
     }
-    let r = DeltaReport {
-        a: DeltaColor {
-            input: a.a.clone(),
-            lab: la.to_array().map(|v| round(v, 4)),
-        },
-        b: DeltaColor {
-            input: a.b.clone(),
-            lab: lb.to_array().map(|v| round(v, 4)),
-        },
-        de76: round(delta_e76(la, lb), 4),
-        de94: round(delta_e94(la, lb), 4),
-        de00: round(delta_e00(la, lb), 4),
-        cmc: round(delta_e_cmc(la, lb, 2.0, 1.0), 4),
-    };
+    let r = DeltaReport::of(&a.a, la, &a.b, lb);
     if a.json {
         report::write_json(out, &r)?;
     } else {

@@ -14,6 +14,7 @@ use std::io::{self, Write};
 
 use serde::Serialize;
 
+use crate::color::LabD50;
 use crate::precision::fixed;
 
 use crate::icc::builtin::BuiltinInfo;
@@ -210,6 +211,29 @@ pub struct DeltaReport {
     pub de00: f64,
     /// ΔE CMC (l:c 2:1), with `a` as the reference.
     pub cmc: f64,
+}
+
+impl DeltaReport {
+    /// The differences between `a` (colour text `a_text`) and `b`, rounded
+    /// for output (CIELAB and ΔE to 4 decimals).
+    pub fn of(a_text: &str, a: LabD50, b_text: &str, b: LabD50) -> Self {
+        use crate::color::delta::{delta_e00, delta_e76, delta_e94, delta_e_cmc};
+        let r = |v: f64| crate::precision::round(v, 4);
+        DeltaReport {
+            a: DeltaColor {
+                input: a_text.to_string(),
+                lab: a.to_array().map(r),
+            },
+            b: DeltaColor {
+                input: b_text.to_string(),
+                lab: b.to_array().map(r),
+            },
+            de76: r(delta_e76(a, b)),
+            de94: r(delta_e94(a, b)),
+            de00: r(delta_e00(a, b)),
+            cmc: r(delta_e_cmc(a, b, 2.0, 1.0)),
+        }
+    }
 }
 
 /// One colour of a `delta` comparison.

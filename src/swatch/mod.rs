@@ -64,7 +64,7 @@ pub struct Palette {
     /// For a map image, the share of the map no class covers.
     pub unclassified_share: Option<f64>,
     /// What the reader noticed that the check should say (a map image's
-    /// embedded profile that was not applied).
+    /// embedded profile, which its class colours are converted from).
     pub notes: Vec<String>,
 }
 
