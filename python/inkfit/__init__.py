@@ -107,11 +107,8 @@ def check(
     protan, deutan, tritan.
     """
     opts = (screen, press, intent, bool(bpc), bool(paper_white), float(tolerance), gamut_test, scheme, list(cvd), min_separation)
-    if isinstance(colours, (str, os.PathLike)):
-        text = _inkfit.check_file(os.fspath(colours), *opts)
-    else:
-        text = _inkfit.check_pairs(_pairs(colours), *opts)
-    return CheckResult(json.loads(text))
+    source = os.fspath(colours) if isinstance(colours, (str, os.PathLike)) else _pairs(colours)
+    return CheckResult(json.loads(_inkfit.check(source, *opts)))
 
 
 def delta(a: str, b: str, *, screen: str = "srgb", press: str = "offset-coated") -> Dict[str, Any]:

@@ -175,13 +175,21 @@ fn run_check(palette: Palette, a: &CheckArgs) -> Result<String, Failure> {
     })
 }
 
-/// Checks a palette file; returns the JSON of `inkfit check FILE --json`.
+/// What to check: a palette file's path, or (name, colour text) pairs.
+#[derive(FromPyObject)]
+enum Colours {
+    Path(String),
+    Pairs(Vec<(String, String)>),
+}
+
+/// Checks a palette file or (name, colour text) pairs; returns the JSON of
+/// `inkfit check --json` with the same options.
 #[pyfunction]
-#[pyo3(signature = (path, screen, press, intent, bpc, paper_white, tolerance, gamut_test, scheme, cvd, min_separation))]
+#[pyo3(signature = (colours, screen, press, intent, bpc, paper_white, tolerance, gamut_test, scheme, cvd, min_separation))]
 #[allow(clippy::too_many_arguments)]
-fn check_file(
+fn check(
     py: Python<'_>,
-    path: String,
+    colours: Colours,
     screen: String,
     press: String,
     intent: String,
@@ -206,44 +214,13 @@ fn check_file(
         min_separation,
     };
     py.allow_threads(|| {
-        let palette = Palette::read(Path::new(&path))?;
+        let palette = match &colours {
+            Colours::Path(p) => Palette::read(Path::new(p))?,
+            Colours::Pairs(pairs) => palette_of_pairs(pairs)?,
+        };
         run_check(palette, &a)
     })
     .map_err(to_py)
-}
-
-/// Checks (name, colour text) pairs; returns the JSON of the same check.
-#[pyfunction]
-#[pyo3(signature = (pairs, screen, press, intent, bpc, paper_white, tolerance, gamut_test, scheme, cvd, min_separation))]
-#[allow(clippy::too_many_arguments)]
-fn check_pairs(
-    py: Python<'_>,
-    pairs: Vec<(String, String)>,
-    screen: String,
-    press: String,
-    intent: String,
-    bpc: bool,
-    paper_white: bool,
-    tolerance: f64,
-    gamut_test: String,
-    scheme: Option<String>,
-    cvd: Vec<String>,
-    min_separation: Option<f64>,
-) -> PyResult<String> {
-    let a = CheckArgs {
-        screen,
-        press,
-        intent,
-        bpc,
-        paper_white,
-        tolerance,
-        gamut_test,
-        scheme,
-        cvd,
-        min_separation,
-    };
-    py.allow_threads(|| run_check(palette_of_pairs(&pairs)?, &a))
-        .map_err(to_py)
 }
 
 /// The colour differences of two colours; the JSON of `inkfit delta A B --json`.
@@ -303,8 +280,7 @@ fn gamut(py: Python<'_>, profiles: Vec<String>) -> PyResult<String> {
 #[pymodule]
 fn _inkfit(m: &Bound<'_, PyModule>) -> PyResult<()> {
     m.add("InkfitError", m.py().get_type::<InkfitError>())?;
-    m.add_function(wrap_pyfunction!(check_file, m)?)?;
-    m.add_function(wrap_pyfunction!(check_pairs, m)?)?;
+    m.add_function(wrap_pyfunction!(check, m)?)?;
     m.add_function(wrap_pyfunction!(delta, m)?)?;
     m.add_function(wrap_pyfunction!(inspect, m)?)?;
     m.add_function(wrap_pyfunction!(gamut, m)?)?;

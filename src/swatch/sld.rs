@@ -42,6 +42,12 @@ fn se_function<'a, 'i>(p: Node<'a, 'i>) -> Option<Node<'a, 'i>> {
         .find(|c| c.is_element() && SE_FUNCTIONS.contains(&c.tag_name().name()))
 }
 
+/// A Categorize value's name: "lowest" below every threshold, else
+/// "from THRESHOLD".
+fn category_name(below: Option<&str>) -> String {
+    below.map_or("lowest".to_string(), |t| format!("from {t}"))
+}
+
 fn text_of(n: Node<'_, '_>) -> String {
     n.descendants()
         .filter(Node::is_text)
@@ -215,36 +221,51 @@ impl Reader<'_> {
                 }
             }
             "Categorize" => {
-                let mut below: Option<String> = None;
-                for c in f.children().filter(Node::is_element) {
-                    match c.tag_name().name() {
-                        "Threshold" => below = Some(text_of(c)),
-                        "Value" => {
-                            let name = below.as_ref().map_or("lowest".to_string(), |t| format!("from {t}"));
-                            out.push((name, self.literal(c)?, c));
-                        }
-                        _ => {}
-                    }
+                for (below, colour, node) in self.categorize(f)? {
+                    out.push((category_name(below.as_deref()), colour, node));
                 }
             }
-            _ => {
-                for point in f
-                    .children()
-                    .filter(|c| c.is_element() && c.tag_name().name() == "InterpolationPoint")
-                {
-                    let data = child(point, "Data").map(text_of).unwrap_or_default();
-                    let Some(value) = child(point, "Value") else {
-                        return Err(self.err(point, "an InterpolationPoint without a Value".into()));
-                    };
-                    out.push((data, self.literal(value)?, value));
-                }
-            }
+            _ => out.extend(self.interpolation_points(f)?),
         }
         if let Some(fallback) = f.attribute("fallbackValue").filter(|v| !v.trim().is_empty()) {
             out.push(("other".to_string(), fallback.trim().to_string(), f));
         }
         if out.is_empty() {
             return Err(self.err(f, format!("a {} without any colour", f.tag_name().name())));
+        }
+        Ok(out)
+    }
+
+    /// SE 1.1, 11.6.2: a Categorize's values with the threshold each lies
+    /// above (`None` for the first, below every threshold).
+    fn categorize<'a, 'i>(&self, f: Node<'a, 'i>) -> Result<Vec<(Option<String>, String, Node<'a, 'i>)>, PaletteError> {
+        let mut out = Vec::new();
+        let mut below: Option<String> = None;
+        for c in f.children().filter(Node::is_element) {
+            match c.tag_name().name() {
+                "Threshold" => below = Some(text_of(c)),
+                "Value" => out.push((below.clone(), self.literal(c)?, c)),
+                _ => {}
+            }
+        }
+        Ok(out)
+    }
+
+    /// SE 1.1, 11.6.3: an Interpolate's points as (data, colour, value node).
+    fn interpolation_points<'a, 'i>(
+        &self,
+        f: Node<'a, 'i>,
+    ) -> Result<Vec<(String, String, Node<'a, 'i>)>, PaletteError> {
+        let mut out = Vec::new();
+        for point in f
+            .children()
+            .filter(|c| c.is_element() && c.tag_name().name() == "InterpolationPoint")
+        {
+            let data = child(point, "Data").map(text_of).unwrap_or_default();
+            let Some(value) = child(point, "Value") else {
+                return Err(self.err(point, "an InterpolationPoint without a Value".into()));
+            };
+            out.push((data, self.literal(value)?, value));
         }
         Ok(out)
     }
@@ -269,32 +290,16 @@ impl Reader<'_> {
                     let opacity = e.attribute("opacity").and_then(number).unwrap_or(1.0);
                     points.push((q, name, color.to_string(), opacity, e));
                 }
-                "InterpolationPoint" => {
-                    let data = child(e, "Data").map(text_of).unwrap_or_default();
-                    let Some(value) = child(e, "Value") else {
-                        return Err(self.err(e, "an InterpolationPoint without a Value".into()));
-                    };
-                    let colour = self.literal(value)?;
-                    points.push((number(&data).unwrap_or(f64::NAN), data.clone(), colour, 1.0, value));
+                "Interpolate" => {
+                    for (data, colour, value) in self.interpolation_points(e)? {
+                        points.push((number(&data).unwrap_or(f64::NAN), data, colour, 1.0, value));
+                    }
                 }
                 "Categorize" => {
-                    // SE 1.1, 11.6.2: Value, then Threshold and Value pairs;
-                    // each value is named by the threshold below it.
-                    let mut below: Option<String> = None;
-                    for c in e.children().filter(Node::is_element) {
-                        match c.tag_name().name() {
-                            "Threshold" => below = Some(text_of(c)),
-                            "Value" => {
-                                let colour = self.literal(c)?;
-                                let name = match &below {
-                                    Some(t) => format!("from {t}"),
-                                    None => "lowest".to_string(),
-                                };
-                                let q = below.as_deref().and_then(number).unwrap_or(f64::NEG_INFINITY);
-                                points.push((q, name, colour, 1.0, c));
-                            }
-                            _ => {}
-                        }
+                    // Each value is named by the threshold below it.
+                    for (below, colour, c) in self.categorize(e)? {
+                        let q = below.as_deref().and_then(number).unwrap_or(f64::NEG_INFINITY);
+                        points.push((q, category_name(below.as_deref()), colour, 1.0, c));
                     }
                 }
                 _ => {}
