@@ -63,32 +63,52 @@ fn json<T: serde::Serialize>(v: &T) -> Result<String, Failure> {
     Ok(String::from_utf8(out)?)
 }
 
+/// The value `name` stands for in `table`, else an error naming `what` and
+/// the names it takes.
+fn pick<T: Copy>(what: &str, name: &str, table: &[(&str, T)]) -> Result<T, Failure> {
+    match table.iter().find(|(n, _)| *n == name) {
+        Some((_, v)) => Ok(*v),
+        None => {
+            let names: Vec<&str> = table.iter().map(|(n, _)| *n).collect();
+            Err(format!("{what} '{name}': give {}", names.join(", ")).into())
+        }
+    }
+}
+
 fn intent(name: &str) -> Result<RenderingIntent, Failure> {
-    Ok(match name {
-        "perceptual" => RenderingIntent::Perceptual,
-        "relative" => RenderingIntent::Relative,
-        "saturation" => RenderingIntent::Saturation,
-        "absolute" => RenderingIntent::Absolute,
-        other => return Err(format!("intent '{other}': give perceptual, relative, saturation or absolute").into()),
-    })
+    use RenderingIntent::*;
+    pick(
+        "intent",
+        name,
+        &[
+            ("perceptual", Perceptual),
+            ("relative", Relative),
+            ("saturation", Saturation),
+            ("absolute", Absolute),
+        ],
+    )
 }
 
 fn scheme(name: &str) -> Result<Scheme, Failure> {
-    Ok(match name {
-        "qualitative" => Scheme::Qualitative,
-        "sequential" => Scheme::Sequential,
-        "diverging" => Scheme::Diverging,
-        other => return Err(format!("scheme '{other}': give qualitative, sequential or diverging").into()),
-    })
+    use Scheme::*;
+    pick(
+        "scheme",
+        name,
+        &[
+            ("qualitative", Qualitative),
+            ("sequential", Sequential),
+            ("diverging", Diverging),
+        ],
+    )
 }
 
 fn deficiency(name: &str) -> Result<Deficiency, Failure> {
-    Ok(match name {
-        "protan" => Deficiency::Protan,
-        "deutan" => Deficiency::Deutan,
-        "tritan" => Deficiency::Tritan,
-        other => return Err(format!("cvd '{other}': give protan, deutan or tritan").into()),
-    })
+    use Deficiency::*;
+    pick(
+        "cvd",
+        name,
+        &[("protan", Protan), ("deutan", Deutan), ("tritan", Tritan)],
+    )
 }
 
 /// A palette of (name, colour text) pairs, as a palette file of them reads.
@@ -146,11 +166,11 @@ fn run_check(palette: Palette, a: &CheckArgs) -> Result<String, Failure> {
         bpc: a.bpc,
         paper_white: a.paper_white,
     };
-    let test = match a.gamut_test.as_str() {
-        "boundary" => GamutTest::Boundary,
-        "round-trip" => GamutTest::RoundTrip,
-        other => return Err(format!("gamut_test '{other}': give boundary or round-trip").into()),
-    };
+    let test = pick(
+        "gamut_test",
+        &a.gamut_test,
+        &[("boundary", GamutTest::Boundary), ("round-trip", GamutTest::RoundTrip)],
+    )?;
     let mut opts = SurvivalOptions {
         cvd: a.cvd.iter().map(|c| deficiency(c)).collect::<Result<_, _>>()?,
         ..SurvivalOptions::default()
