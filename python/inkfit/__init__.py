@@ -106,9 +106,20 @@ def check(
     absolute; ``scheme`` qualitative, sequential or diverging; ``cvd`` any of
     protan, deutan, tritan.
     """
-    opts = (screen, press, intent, bool(bpc), bool(paper_white), float(tolerance), gamut_test, scheme, list(cvd), min_separation)
+    options = {
+        "screen": screen,
+        "press": press,
+        "intent": intent,
+        "bpc": bool(bpc),
+        "paper_white": bool(paper_white),
+        "tolerance": float(tolerance),
+        "gamut_test": gamut_test,
+        "scheme": scheme,
+        "cvd": list(cvd),
+        "min_separation": None if min_separation is None else float(min_separation),
+    }
     source = os.fspath(colours) if isinstance(colours, (str, os.PathLike)) else _pairs(colours)
-    return CheckResult(json.loads(_inkfit.check(source, *opts)))
+    return CheckResult(json.loads(_inkfit.check(source, options)))
 
 
 def delta(a: str, b: str, *, screen: str = "srgb", press: str = "offset-coated") -> Dict[str, Any]:

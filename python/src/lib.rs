@@ -141,7 +141,10 @@ fn palette_of_pairs(pairs: &[(String, String)]) -> Result<Palette, Failure> {
     })
 }
 
-/// The options of a check, as the command line's flags.
+/// The options of a check, as the command line's flags: a dict with these
+/// keys, which the Python side fills.
+#[derive(FromPyObject)]
+#[pyo3(from_item_all)]
 struct CheckArgs {
     screen: String,
     press: String,
@@ -202,43 +205,16 @@ enum Colours {
     Pairs(Vec<(String, String)>),
 }
 
-/// Checks a palette file or (name, colour text) pairs; returns the JSON of
-/// `inkfit check --json` with the same options.
+/// Checks a palette file or (name, colour text) pairs with `options`;
+/// returns the JSON of `inkfit check --json` with the same options.
 #[pyfunction]
-#[pyo3(signature = (colours, screen, press, intent, bpc, paper_white, tolerance, gamut_test, scheme, cvd, min_separation))]
-#[allow(clippy::too_many_arguments)]
-fn check(
-    py: Python<'_>,
-    colours: Colours,
-    screen: String,
-    press: String,
-    intent: String,
-    bpc: bool,
-    paper_white: bool,
-    tolerance: f64,
-    gamut_test: String,
-    scheme: Option<String>,
-    cvd: Vec<String>,
-    min_separation: Option<f64>,
-) -> PyResult<String> {
-    let a = CheckArgs {
-        screen,
-        press,
-        intent,
-        bpc,
-        paper_white,
-        tolerance,
-        gamut_test,
-        scheme,
-        cvd,
-        min_separation,
-    };
+fn check(py: Python<'_>, colours: Colours, options: CheckArgs) -> PyResult<String> {
     py.allow_threads(|| {
         let palette = match &colours {
             Colours::Path(p) => Palette::read(Path::new(p))?,
             Colours::Pairs(pairs) => palette_of_pairs(pairs)?,
         };
-        run_check(palette, &a)
+        run_check(palette, &options)
     })
     .map_err(to_py)
 }
