@@ -14,7 +14,7 @@ use pyo3::prelude::*;
 use inkfit::color::css::parse_color;
 use inkfit::color::cvd::Deficiency;
 use inkfit::conditions::GamutTest;
-use inkfit::icc::transform::{resolve_lab, PressMapping};
+use inkfit::icc::transform::PressMapping;
 use inkfit::icc::{IccProfile, RenderingIntent};
 use inkfit::report::DeltaReport;
 use inkfit::swatch::check::check_with_test;
@@ -223,21 +223,13 @@ fn check(py: Python<'_>, colours: Colours, options: CheckArgs) -> PyResult<Strin
 #[pyfunction]
 fn delta(py: Python<'_>, a: String, b: String, screen: String, press: String) -> PyResult<String> {
     py.allow_threads(|| -> Result<String, Failure> {
-        let (ca, cb) = (parse_color(&a)?, parse_color(&b)?);
-        let screen = IccProfile::load(&screen)?.require_screen()?;
-        let cmyk = |c: &inkfit::color::css::ColorInput| matches!(c, inkfit::color::css::ColorInput::DeviceCmyk(_));
-        let press = if cmyk(&ca) || cmyk(&cb) {
-            Some(IccProfile::load(&press)?.require_press()?)
-        } else {
-            None
-        };
-        let lab = resolve_lab(&[ca, cb], &screen, press.as_ref())?;
-        for (text, l) in [(&a, lab[0]), (&b, lab[1])] {
-            if !l.to_array().iter().all(|v| v.is_finite()) {
-                return Err(format!("\"{text}\" gives no finite CIELAB through these profiles").into());
-            }
-        }
-        json(&DeltaReport::of(&a, lab[0], &b, lab[1]))
+        let r = DeltaReport::between(
+            &a,
+            &b,
+            || IccProfile::load(&screen)?.require_screen(),
+            || IccProfile::load(&press)?.require_press(),
+        )?;
+        json(&r)
     })
     .map_err(to_py)
 }

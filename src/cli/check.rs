@@ -8,8 +8,6 @@ use clap::Args;
 
 use super::{busy, guarded_outputs, use_color, Error, GamutTestArg, Outcome, BUSY_FROM};
 use super::{MappingArgs, ProfileArgs, SurvivalArgs};
-use crate::color::css::parse_color;
-use crate::icc::transform::resolve_lab;
 use crate::icc::IccProfile;
 use crate::report::{self, DeltaReport};
 use crate::swatch::adjacency::read_adjacency;
@@ -199,25 +197,12 @@ pub(super) fn run_check(a: CheckArgs, out: &mut dyn Write) -> Result<Outcome, Er
 }
 
 pub(super) fn run_delta(a: DeltaArgs, out: &mut dyn Write) -> Result<Outcome, Error> {
-    let ca = parse_color(&a.a)?;
-    let cb = parse_color(&a.b)?;
-    let screen = IccProfile::load(&a.profiles.screen)?.require_screen()?;
-    let needs_press = [ca, cb]
-        .iter()
-        .any(|c| matches!(c, crate::color::css::ColorInput::DeviceCmyk(_)));
-    let press = if needs_press {
-        Some(IccProfile::load(&a.profiles.press)?.require_press()?)
-    } else {
-        None
-    };
-    let lab = resolve_lab(&[ca, cb], &screen, press.as_ref())?;
-    let (la, lb) = (lab[0], lab[1]);
-    for (text, l) in [(&a.a, la), (&a.b, lb)] {
-        if !l.to_array().iter().all(|v| v.is_finite()) {
-            return Err(format!("\"{text}\" gives no finite CIELAB through these profiles").into());
-        }
-    }
-    let r = DeltaReport::of(&a.a, la, &a.b, lb);
+    let r = DeltaReport::between(
+        &a.a,
+        &a.b,
+        || IccProfile::load(&a.profiles.screen)?.require_screen(),
+        || IccProfile::load(&a.profiles.press)?.require_press(),
+    )?;
     if a.json {
         report::write_json(out, &r)?;
     } else {

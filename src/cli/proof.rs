@@ -582,8 +582,13 @@ fn proof_one(job: &Job, ctx: &Work<'_>, side: Option<u32>) -> Result<Proofed, Er
     let alpha = r.alpha.take();
     let o = engine.run_owned(std::mem::take(&mut r.color), ctx.heat, Method::Table);
     let stats = o.tally.summary();
+    // The map's scale, for the page and for the legend file beside the map.
+    let legend = ctx
+        .heat
+        .filter(|_| side.is_some() || job.map.is_some())
+        .map(|heat| heat.legend_svg(&format!("ΔE00 map of {}", file_name(&job.input))));
     let mut pictures = None;
-    if let (Some(side), Some(heat), Some(pixels)) = (side, ctx.heat, &o.map) {
+    if let (Some(side), Some(heat), Some(pixels), Some(legend)) = (side, ctx.heat, &o.map, &legend) {
         let (px, pw, ph) = raster::preview_mean(&o.proof, w, h, bits, side);
         let proof = picture_png(&job.out, pw, ph, &px, ctx.screen_icc)?;
         let (px, _, _) = raster::preview_brightest(pixels, w, h, side);
@@ -592,27 +597,15 @@ fn proof_one(job: &Job, ctx: &Work<'_>, side: Option<u32>) -> Result<Proofed, Er
             screen: screen_picture,
             proof,
             delta: picture_png(&job.out, pw, ph, &px, &heat.srgb_icc)?,
-            legend: heat.legend_svg(&format!("ΔE00 map of {}", file_name(&job.input))),
+            legend: legend.clone(),
         });
     }
-    if let (Some((m, l)), Some(heat), Some(pixels)) = (&job.map, ctx.heat, o.map) {
-        let png = raster::encode(
-            m,
-            FileKind::Png,
-            &RgbImage {
-                width: w,
-                height: h,
-                bits: 8,
-                rgb: &pixels,
-                alpha: None,
-            },
-            &heat.srgb_icc,
-        )?;
+    if let (Some((m, l)), Some(heat), Some(pixels), Some(legend)) = (&job.map, ctx.heat, o.map, &legend) {
+        let png = picture_png(m, w, h, &pixels, &heat.srgb_icc)?;
         drop(pixels);
         ctx.stage(m, &png)?;
         drop(png);
-        let title = format!("ΔE00 map of {}", file_name(&job.input));
-        ctx.stage(l, heat.legend_svg(&title).as_bytes())?;
+        ctx.stage(l, legend.as_bytes())?;
     }
     let proof = raster::encode(
         &job.out,
@@ -647,7 +640,7 @@ fn proof_one(job: &Job, ctx: &Work<'_>, side: Option<u32>) -> Result<Proofed, Er
     Ok((report, pictures))
 }
 
-/// A small 8-bit RGB copy as PNG, with its profile.
+/// 8-bit RGB as PNG with its profile: the ΔE00 map and the page's small copies.
 fn picture_png(name: &Path, width: u32, height: u32, rgb: &[u8], icc: &[u8]) -> Result<Vec<u8>, Error> {
     let img = RgbImage {
         width,

@@ -5,7 +5,7 @@
 use std::io::{self, Write};
 
 use super::table::{Align, Table, Tone};
-use crate::gamut::result::GamutReport;
+use crate::gamut::result::{GamutReport, ProfileGamut};
 use crate::gamut::DeviceKind;
 
 /// Thousands separated by commas, no decimals.
@@ -26,8 +26,19 @@ pub(crate) fn grouped(v: f64) -> String {
     }
 }
 
-fn pct(share: f64) -> String {
+/// A share 0..1 in percent, one decimal.
+pub(crate) fn pct(share: f64) -> String {
     format!("{:.1} %", share * 100.0)
+}
+
+/// A profile's total-ink limit in words, with where it comes from; `None`
+/// for RGB.
+pub(crate) fn ink_limit_words(p: &ProfileGamut) -> Option<String> {
+    match (p.ink_limit, p.ink_limit_source) {
+        (Some(l), Some("measured")) => Some(format!("{l:.1} % (measured from its CIELAB → CMYK table)")),
+        (Some(l), _) => Some(format!("{l:.1} % (given)")),
+        _ => None,
+    }
 }
 
 /// Writes the `gamut` result as text.
@@ -51,11 +62,7 @@ pub fn render(w: &mut dyn Write, r: &GamutReport) -> io::Result<()> {
             plain(grouped(p.volume)),
             plain(format!("{:.2}", p.l_min)),
             plain(format!("{:.2}", p.l_max)),
-            plain(match (p.ink_limit, p.ink_limit_source) {
-                (Some(l), Some("measured")) => format!("{l:.1} % (measured from its CIELAB → CMYK table)"),
-                (Some(l), _) => format!("{l:.1} % (given)"),
-                _ => "-".to_string(),
-            }),
+            plain(ink_limit_words(p).unwrap_or_else(|| "-".to_string())),
         ]);
     }
     t.write(w, false)?;

@@ -213,7 +213,53 @@ pub struct DeltaReport {
     pub cmc: f64,
 }
 
+/// Why two colours could not be compared.
+#[derive(Debug, thiserror::Error)]
+pub enum DeltaError {
+    /// A colour text that does not parse.
+    #[error(transparent)]
+    Colour(#[from] crate::color::css::ColorParseError),
+    /// A profile that cannot be loaded or used.
+    #[error(transparent)]
+    Icc(#[from] crate::icc::IccError),
+    /// A colour that the profiles turn into no finite CIELAB.
+    #[error("\"{input}\" gives no finite CIELAB through these profiles")]
+    NotFinite {
+        /// The colour text as given.
+        input: String,
+    },
+}
+
 impl DeltaReport {
+    /// The differences between two colour texts, as `inkfit delta` gives
+    /// them: the texts parsed first, then RGB through the profile `screen`
+    /// loads, device CMYK through the one `press` loads, which is asked for
+    /// only when a colour is CMYK.
+    pub fn between(
+        a: &str,
+        b: &str,
+        screen: impl FnOnce() -> Result<crate::icc::IccProfile, crate::icc::IccError>,
+        press: impl FnOnce() -> Result<crate::icc::IccProfile, crate::icc::IccError>,
+    ) -> Result<Self, DeltaError> {
+        use crate::color::css::{parse_color, ColorInput};
+        let colours = [parse_color(a)?, parse_color(b)?];
+        let screen = screen()?;
+        let press = if colours.iter().any(|c| matches!(c, ColorInput::DeviceCmyk(_))) {
+            Some(press()?)
+        } else {
+            None
+        };
+        let lab = crate::icc::transform::resolve_lab(&colours, &screen, press.as_ref())?;
+        for (text, l) in [(a, lab[0]), (b, lab[1])] {
+            if !l.to_array().iter().all(|v| v.is_finite()) {
+                return Err(DeltaError::NotFinite {
+                    input: text.to_string(),
+                });
+            }
+        }
+        Ok(Self::of(a, lab[0], b, lab[1]))
+    }
+
     /// The differences between `a` (colour text `a_text`) and `b`, rounded
     /// for output (CIELAB and ΔE to 4 decimals).
     pub fn of(a_text: &str, a: LabD50, b_text: &str, b: LabD50) -> Self {

@@ -451,15 +451,9 @@ fn in_embedded_profile(
     let prof = IccProfile::from_bytes(&name, Origin::File(path.to_path_buf()), icc.to_vec())
         .map_err(|e| bad(e.to_string()))?;
     check_embedded(&prof, channels).map_err(bad)?;
-    let codes: Vec<[f64; 3]> = p
-        .entries
-        .iter()
-        .map(|e| match parse_color(&e.input) {
-            Ok(ColorInput::ScreenRgb(rgb)) => rgb,
-            _ => [0.0; 3],
-        })
-        .collect();
-    let lab: Vec<[f64; 3]> = if channels == 1 {
+    // The classes' colours as read: their 8-bit codes as screen RGB.
+    let colours: Vec<ColorInput> = p.entries.iter().map(|e| e.color).collect();
+    let lab: Vec<LabD50> = if channels == 1 {
         let t = transform::local::<f64, [f64; 3]>(
             Side::of(&prof, lcms2::PixelFormat::GRAY_DBL),
             Side::Lab,
@@ -467,24 +461,22 @@ fn in_embedded_profile(
             false,
         )
         .map_err(|e| bad(e.to_string()))?;
-        let grey: Vec<f64> = codes.iter().map(|c| c[0]).collect();
+        let grey: Vec<f64> = colours
+            .iter()
+            .map(|c| match c {
+                ColorInput::ScreenRgb(rgb) => rgb[0],
+                _ => 0.0,
+            })
+            .collect();
         let mut out = vec![[0.0; 3]; grey.len()];
         t.transform_pixels(&grey, &mut out);
-        out
+        out.into_iter().map(LabD50::from_array).collect()
     } else {
-        let t = transform::local::<[f64; 3], [f64; 3]>(
-            Side::of(&prof, lcms2::PixelFormat::RGB_DBL),
-            Side::Lab,
-            RenderingIntent::Relative,
-            false,
-        )
-        .map_err(|e| bad(e.to_string()))?;
-        let mut out = vec![[0.0; 3]; codes.len()];
-        t.transform_pixels(&codes, &mut out);
-        out
+        // RGB in the embedded profile, as screen RGB goes through --screen.
+        transform::resolve_lab(&colours, &prof, None).map_err(|e| bad(e.to_string()))?
     };
     for (e, l) in p.entries.iter_mut().zip(lab) {
-        e.color = ColorInput::Lab(LabD50::from_array(l));
+        e.color = ColorInput::Lab(l);
     }
     let what = prof
         .description()

@@ -9,6 +9,7 @@ use super::{document, escape, inline_svg, patch_compact, th, PageColour};
 use crate::gamut::result::GamutReport;
 use crate::gamut::DeviceKind;
 use crate::precision::fixed;
+use crate::report::gamut::{grouped, ink_limit_words, pct};
 
 /// What the page is made of: the report and the slices figure's SVG (as
 /// `gamut --svg` writes it).
@@ -19,15 +20,6 @@ pub struct GamutPage<'a> {
     pub figure: &'a str,
     /// The L* of the slices, in the figure's order.
     pub slices: &'a [f64],
-}
-
-/// Thousands separated by commas, no decimals (as the text table).
-fn grouped(v: f64) -> String {
-    super::super::gamut::grouped(v)
-}
-
-fn pct(share: f64) -> String {
-    format!("{} %", fixed(share * 100.0, 1))
 }
 
 /// The whole HTML document.
@@ -113,11 +105,7 @@ fn profiles(b: &mut String, r: &GamutReport) {
             grouped(g.volume),
             fixed(g.l_min, 2),
             fixed(g.l_max, 2),
-            escape(&match (g.ink_limit, g.ink_limit_source) {
-                (Some(l), Some("measured")) => format!("{} % (measured from its CIELAB → CMYK table)", fixed(l, 1)),
-                (Some(l), _) => format!("{} % (given)", fixed(l, 1)),
-                _ => "–".to_string(),
-            })
+            escape(&ink_limit_words(g).unwrap_or_else(|| "–".to_string()))
         );
     }
     b.push_str("</tbody>\n</table>\n");
